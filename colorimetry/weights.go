@@ -1,0 +1,136 @@
+package colorimetry
+
+import (
+	"fmt"
+)
+
+// Weights is a precomputed weighting table for one observer, one
+// illuminant (or none, for lights) and one computation grid: it turns a
+// spectrum on that grid into X, Y, Z with three dot products (CIE 015:2018
+// §7, summation at the grid interval). It is immutable and safe for
+// concurrent use.
+type Weights struct {
+	grid       Grid
+	wx, wy, wz []float64
+	white      XYZ
+	object     bool
+	observer   string
+}
+
+// NewObjectWeights returns the weights for reflectance or transmittance
+// (fraction 0–1) under the illuminant ill, seen by obs, computed on the grid
+// g: W(λ) = k·S(λ)·x̄(λ)·Δλ with k = 100 / Σ S ȳ Δλ, so the perfect
+// diffuser has Y = 100. The illuminant is resampled onto g by its own
+// rules, the observer is taken at its table rows (and is zero outside its
+// table). It returns ErrZeroLuminance when the illuminant has no
+// luminance on g.
+func NewObjectWeights(obs *Observer, ill Spectrum, g Grid) (*Weights, error) {
+	if !g.Valid() {
+		return nil, fmt.Errorf("%w: %+v", ErrBadGrid, g)
+	}
+	s, err := ill.Resample(g)
+	if err != nil {
+		return nil, fmt.Errorf("illuminant on %v: %w", g, err)
+	}
+	x, y, z := obs.onGrid(g)
+	var sy float64
+	for i := range y {
+		sy += s.values[i] * y[i]
+	}
+	if sy == 0 || !isFinite(sy) {
+		return nil, fmt.Errorf("illuminant on %v: %w", g, ErrZeroLuminance)
+	}
+	k := 100 / sy
+	w := &Weights{grid: g, wx: x, wy: y, wz: z, object: true, observer: obs.name}
+	for i := range x {
+		f := k * s.values[i]
+		w.wx[i] *= f
+		w.wy[i] *= f
+		w.wz[i] *= f
+		w.white.X += w.wx[i]
+		w.white.Y += w.wy[i]
+		w.white.Z += w.wz[i]
+	}
+	w.white.Y = 100 // exact by construction; avoid summation round-off
+	return w, nil
+}
+
+// NewLightWeights returns the weights for a light (a spectral power
+// distribution) seen by obs on grid g: W(λ) = Km·x̄(λ)·Δλ, so a spectral
+// radiance in W·sr⁻¹·m⁻²·nm⁻¹ gives luminance Y in cd/m², a spectral
+// irradiance in W·m⁻²·nm⁻¹ gives illuminance in lx, and so on
+// (Km = 683.002 lm/W). For relative lights scale the result with
+// XYZ.ScaleToY.
+func NewLightWeights(obs *Observer, g Grid) (*Weights, error) {
+	if !g.Valid() {
+		return nil, fmt.Errorf("%w: %+v", ErrBadGrid, g)
+	}
+	x, y, z := obs.onGrid(g)
+	f := Km * g.Step
+	for i := range x {
+		x[i] *= f
+		y[i] *= f
+		z[i] *= f
+	}
+	return &Weights{grid: g, wx: x, wy: y, wz: z, observer: obs.name}, nil
+}
+
+// Grid returns the computation grid.
+func (w *Weights) Grid() Grid { return w.grid }
+
+// Object reports whether w weights object colours (true) or lights.
+func (w *Weights) Object() bool { return w.object }
+
+// White returns the tristimulus values of the perfect diffuser (Y = 100)
+// for object weights, and the zero XYZ for light weights.
+func (w *Weights) White() XYZ { return w.white }
+
+// ObserverName returns the name of the observer the weights were built for.
+func (w *Weights) ObserverName() string { return w.observer }
+
+// XYZ returns the tristimulus values of s. A spectrum on another grid is
+// first resampled onto w's grid by its own interpolation and extrapolation
+// rules (CIE 015: interpolate the data, not the weights).
+func (w *Weights) XYZ(s Spectrum) (XYZ, error) {
+	if s.IsZero() {
+		return XYZ{}, fmt.Errorf("empty spectrum: %w", ErrTooFew)
+	}
+	r, err := s.Resample(w.grid)
+	if err != nil {
+		return XYZ{}, err
+	}
+	return w.dot(r.values), nil
+}
+
+// dot returns the three weighted sums of v (len w.grid.N).
+func (w *Weights) dot(v []float64) XYZ {
+	var x, y, z float64
+	wx, wy, wz := w.wx[:len(v)], w.wy[:len(v)], w.wz[:len(v)]
+	for i, r := range v {
+		x += r * wx[i]
+		y += r * wy[i]
+		z += r * wz[i]
+	}
+	return XYZ{x, y, z}
+}
+
+// XYZBatchTo computes the tristimulus values of many spectra sampled on
+// w's grid. values holds the spectra one after another (len N·n, n =
+// Grid().N); dst receives X, Y, Z for each spectrum in turn (len 3·N) and is
+// returned. It allocates nothing. It panics if len(values) is not a
+// multiple of n or dst has the wrong length.
+func (w *Weights) XYZBatchTo(dst, values []float64) []float64 {
+	n := w.grid.N
+	if len(values)%n != 0 {
+		panic("colorimetry: batch length is not a multiple of the grid size")
+	}
+	if len(dst) != 3*(len(values)/n) {
+		panic("colorimetry: dst length must be 3 per spectrum")
+	}
+	for j := 0; j < len(dst); j += 3 {
+		c := w.dot(values[:n])
+		values = values[n:]
+		dst[j], dst[j+1], dst[j+2] = c.X, c.Y, c.Z
+	}
+	return dst
+}
