@@ -1,0 +1,110 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"strings"
+
+	"github.com/antipode-color/antipode/cie"
+	"github.com/antipode-color/antipode/colorimetry"
+	"github.com/antipode-color/antipode/colorimetry/specio"
+)
+
+// spectrumIn is one spectrum read from a file, with where it came from.
+type spectrumIn struct {
+	name string
+	file string
+	line int
+	s    colorimetry.Spectrum
+}
+
+// readSpectra reads every spectrum of path ("-" is standard input), in any
+// layout the specio package recognises by content.
+func readSpectra(e *env, path string) ([]spectrumIn, error) {
+	var list []specio.Named
+	var err error
+	if path == "-" {
+		list, err = specio.NewReader(e.stdin, "-").ReadAll()
+	} else {
+		list, err = specio.ReadFile(path)
+	}
+	if err != nil {
+		return nil, err
+	}
+	out := make([]spectrumIn, len(list))
+	for i, n := range list {
+		out[i] = spectrumIn{name: n.Name, file: path, line: n.Line, s: n.Spectrum}
+	}
+	return out, nil
+}
+
+// selectColumns keeps the spectra named in the comma-separated list names
+// (all when names is empty), in the order given.
+func selectColumns(in []spectrumIn, names string, file string) ([]spectrumIn, error) {
+	if names == "" {
+		return in, nil
+	}
+	var out []spectrumIn
+	for _, want := range strings.Split(names, ",") {
+		want = strings.TrimSpace(want)
+		found := false
+		for _, s := range in {
+			if strings.EqualFold(s.name, want) {
+				out = append(out, s)
+				found = true
+				break
+			}
+		}
+		if !found {
+			have := make([]string, 0, len(in))
+			for _, s := range in {
+				have = append(have, s.name)
+			}
+			return nil, fmt.Errorf("%s: no spectrum named %q (the file has: %s)", file, want, strings.Join(have, ", "))
+		}
+	}
+	return out, nil
+}
+
+// observerFlag resolves --observer.
+func observerFlag(name string) (*colorimetry.Observer, error) {
+	o, err := cie.ObserverByName(name)
+	if err != nil {
+		return nil, usagef("--observer %s: %v", name, err)
+	}
+	return o, nil
+}
+
+// illuminantFlag resolves --illuminant: a CIE name (see "antipode
+// illuminants"), a file with one spectrum, or FILE:NAME for one spectrum of a
+// file.
+func illuminantFlag(e *env, name string) (colorimetry.Spectrum, string, error) {
+	s, err := cie.Illuminant(name)
+	if err == nil {
+		return s, name, nil
+	}
+	file, col := name, ""
+	if _, statErr := os.Stat(file); statErr != nil {
+		if i := strings.LastIndex(name, ":"); i > 0 {
+			file, col = name[:i], name[i+1:]
+		}
+	}
+	if _, statErr := os.Stat(file); statErr != nil {
+		return colorimetry.Spectrum{}, "", usagef("--illuminant %s: not a known illuminant (see 'antipode illuminants') and not a file", name)
+	}
+	list, rerr := readSpectra(e, file)
+	if rerr != nil {
+		return colorimetry.Spectrum{}, "", rerr
+	}
+	if col != "" {
+		list, rerr = selectColumns(list, col, file)
+		if rerr != nil {
+			return colorimetry.Spectrum{}, "", rerr
+		}
+	}
+	if len(list) != 1 {
+		return colorimetry.Spectrum{}, "", usagef("--illuminant %s: the file holds %d spectra; name one as FILE:NAME", name, len(list))
+	}
+	// A measured light: zero outside its measured range.
+	return list[0].s.WithExtrap(colorimetry.ExtrapZero), list[0].name, nil
+}
