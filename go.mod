@@ -3,13 +3,13 @@ module github.com/antipode-color/antipode
 go 1.26.0
 
 require (
+	github.com/lucasb-eyer/go-colorful v1.4.1
 	gonum.org/v1/gonum v0.17.0
 	pgregory.net/rapid v1.3.0
 )
 
 require (
 	github.com/BurntSushi/toml v1.4.1-0.20240526193622-a339e1f7089c // indirect
-	github.com/lucasb-eyer/go-colorful v1.4.1 // indirect
 	golang.org/x/exp/typeparams v0.0.0-20231108232855-2478ac86f678 // indirect
 	golang.org/x/mod v0.41.0 // indirect
 	golang.org/x/sync v0.23.0 // indirect

@@ -27,7 +27,11 @@ func NewGrid(start, end, step float64) (Grid, error) {
 	if !(step > 0) || math.IsInf(step, 0) || !isFinite(start) || !isFinite(end) || end <= start {
 		return Grid{}, fmt.Errorf("%w: %g–%g nm at %g nm", ErrBadGrid, start, end, step)
 	}
-	n := int(math.Round((end-start)/step)) + 1
+	span := math.Round((end - start) / step)
+	if span > math.MaxInt32 {
+		return Grid{}, fmt.Errorf("%w: %g–%g nm at %g nm has too many points", ErrBadGrid, start, end, step)
+	}
+	n := int(span) + 1
 	if n < 3 {
 		return Grid{}, fmt.Errorf("%w: %g–%g nm at %g nm has fewer than 3 points", ErrBadGrid, start, end, step)
 	}

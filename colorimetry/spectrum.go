@@ -26,6 +26,31 @@ type Options struct {
 	Interp Interp  // interpolation method; zero means InterpAuto
 	Extrap Extrap  // extrapolation rule; zero means ExtrapHold
 	Step   float64 // grid step for irregular input, nm; zero means 1 nm
+	// MaxSamples bounds the grid onto which irregular input is resampled;
+	// zero means DefaultMaxSamples.
+	MaxSamples int
+}
+
+// DefaultMaxSamples is the largest grid, in samples, onto which irregular
+// input is resampled unless Options.MaxSamples says otherwise: 2²⁰, a
+// 1 nm grid over a millimetre of wavelengths, far beyond any instrument.
+const DefaultMaxSamples = 1 << 20
+
+// UniformStep reports whether the strictly increasing wavelengths nm (at
+// least two) are uniformly spaced, to a relative spread of 1e-4 of the
+// step, and returns the mean step in nm.
+func UniformStep(nm []float64) (step float64, ok bool) {
+	n := len(nm)
+	if n < 2 {
+		return 0, false
+	}
+	step = (nm[n-1] - nm[0]) / float64(n-1)
+	for i := 1; i < n; i++ {
+		if math.Abs(nm[i]-nm[i-1]-step) > uniformTol*step {
+			return step, false
+		}
+	}
+	return step, true
 }
 
 // uniformTol is the relative spread of steps, as a fraction of the mean
@@ -71,14 +96,7 @@ func NewSpectrumWith(nm, values []float64, opt Options) (Spectrum, error) {
 		}
 	}
 	n := len(nm)
-	step := (nm[n-1] - nm[0]) / float64(n-1)
-	uniform := true
-	for i := 1; i < n; i++ {
-		if math.Abs(nm[i]-nm[i-1]-step) > uniformTol*step {
-			uniform = false
-			break
-		}
-	}
+	step, uniform := UniformStep(nm)
 	if uniform {
 		v := make([]float64, n)
 		copy(v, values)
@@ -93,6 +111,13 @@ func NewSpectrumWith(nm, values []float64, opt Options) (Spectrum, error) {
 	}
 	lo := math.Ceil(nm[0]/st-1e-9) * st
 	hi := math.Floor(nm[n-1]/st+1e-9) * st
+	maxN := opt.MaxSamples
+	if maxN <= 0 {
+		maxN = DefaultMaxSamples
+	}
+	if (hi-lo)/st+1 > float64(maxN) {
+		return Spectrum{}, fmt.Errorf("%w: irregular samples from %g to %g nm would need more than %d points at %g nm", ErrBadGrid, nm[0], nm[n-1], maxN, st)
+	}
 	g, err := NewGrid(lo, hi, st)
 	if err != nil {
 		return Spectrum{}, fmt.Errorf("irregular samples from %g to %g nm span too little for a %g nm grid: %w", nm[0], nm[n-1], st, err)
@@ -114,6 +139,9 @@ func NewSpectrumWith(nm, values []float64, opt Options) (Spectrum, error) {
 	}
 	for i := range v {
 		v[i] = pred.Predict(g.Wavelength(i))
+		if !isFinite(v[i]) {
+			return Spectrum{}, &SampleError{Index: i, Wavelength: g.Wavelength(i), Err: fmt.Errorf("resampled value: %w", ErrNotFinite)}
+		}
 	}
 	return Spectrum{grid: g, values: v, interp: opt.Interp, extrap: opt.Extrap}, nil
 }

@@ -227,3 +227,22 @@ func TestChromaticityRoundTrip(t *testing.T) {
 		t.Errorf("NaN XYZ: got %v", err)
 	}
 }
+
+func TestNewSpectrumLimits(t *testing.T) {
+	t.Parallel()
+	// A span of 1e9 nm at 1 nm would need 10⁹ samples.
+	if _, err := NewSpectrum([]float64{1, 2, 1e9}, []float64{0, 0, 0}); !errors.Is(err, ErrBadGrid) {
+		t.Errorf("huge irregular span: got %v, want ErrBadGrid", err)
+	}
+	// A spline through alternating ±1e308 overflows between the samples.
+	_, err := NewSpectrum([]float64{400, 401, 403, 406, 410}, []float64{1e308, -1e308, 1e308, -1e308, 1e308})
+	if !errors.Is(err, ErrNotFinite) {
+		t.Errorf("overflowing spline: got %v, want ErrNotFinite", err)
+	}
+	if _, ok := UniformStep([]float64{400, 405, 410.5}); ok {
+		t.Error("400, 405, 410.5 taken as uniform")
+	}
+	if st, ok := UniformStep([]float64{400, 405, 410}); !ok || st != 5 {
+		t.Errorf("UniformStep: %g, %v", st, ok)
+	}
+}

@@ -19,12 +19,16 @@
 //     amounts.
 //
 // Automatic detection reads the first record. It is the columns layout
-// when its first cell is a number (no header) or a wavelength label, and
-// the rows layout when at least three further cells, and at least half of
-// them, read as wavelengths. When the first cell is a wavelength label and
-// every further cell is a wavelength as well, the first cell of the next
-// record decides: a number means columns, anything else rows. Set
-// Reader.Layout to skip the detection.
+// (without a header) when the first cell is a number. Otherwise, when every
+// further cell reads as a wavelength and either the first cell is a
+// wavelength label or there are fewer than three further cells, the first
+// cell of the next record decides: a number means columns, anything else
+// rows. Otherwise it is the rows layout when the first cell is not a
+// wavelength label and at least three further cells, and at least half of
+// them, read as wavelengths, and the columns layout in all other cases. So
+// a columns file whose spectra are named by numbers needs a wavelength
+// label in its first header cell (or no header). Set Reader.Layout to skip
+// the detection.
 //
 // Text rules, common to both layouts:
 //

@@ -301,17 +301,20 @@ func (r *Reader) detect(first record) (Layout, error) {
 		}
 	}
 	rest := len(f) - 1
-	if wl < 3 || 2*wl < rest {
+	label := isWavelengthLabel(f[0])
+	switch {
+	case wl == 0:
 		return LayoutColumns, nil
-	}
-	if !isWavelengthLabel(f[0]) {
+	case wl == rest && (label || wl < 3):
+		// "nm,1,2,3": spectra named by numbers, or a rows header whose
+		// name column is labelled nm; "name,400,410": a rows header with
+		// too few wavelengths, or two spectra named by numbers. The next
+		// record decides.
+	case !label && wl >= 3 && 2*wl >= rest:
 		return LayoutRows, nil
-	}
-	if wl < rest {
+	default:
 		return LayoutColumns, nil
 	}
-	// "nm,380,385,…": spectrum names that read as wavelengths, or a rows
-	// header whose name column is labelled nm. The next record decides.
 	next, err := r.readRecord()
 	if err == io.EOF {
 		return LayoutColumns, nil
@@ -518,7 +521,8 @@ func (r *Reader) nextRow() (Named, error) {
 	}
 	s, err := r.spectrum(h.wl, r.vals)
 	if err != nil {
-		return Named{}, r.sampleError(err, rec.line, 1, "", func(i int) (int, int, string) {
+		// A sample index is a wavelength column.
+		return Named{}, r.sampleError(err, len(h.wl), rec.line, 1, "", func(i int) (int, int, string) {
 			return rec.line, h.wlCols[i] + 1, h.cells[h.wlCols[i]]
 		})
 	}
@@ -625,9 +629,10 @@ func (r *Reader) readTable(first record) error {
 	for c := 1; c < width; c++ {
 		s, err := r.spectrum(nm, cols[c])
 		if err != nil {
-			return r.sampleError(err, startLine, c+1, fieldNames[c], func(i int) (int, int, string) {
-				var se *colorimetry.SampleError
-				if errors.As(err, &se) && (errors.Is(err, colorimetry.ErrUnsorted) || errors.Is(err, colorimetry.ErrDuplicate)) {
+			// A sample index is a data line; wavelength order is a
+			// problem of the first column, anything else of this one.
+			return r.sampleError(err, len(nm), startLine, c+1, fieldNames[c], func(i int) (int, int, string) {
+				if errors.Is(err, colorimetry.ErrUnsorted) || errors.Is(err, colorimetry.ErrDuplicate) {
 					return lines[i], 1, fieldNames[0]
 				}
 				return lines[i], c + 1, fieldNames[c]
@@ -655,12 +660,12 @@ func (r *Reader) spectrum(nm, v []float64) (colorimetry.Spectrum, error) {
 	return s, nil
 }
 
-// sampleError maps an error from building a spectrum to a place in the
-// file. A *colorimetry.SampleError is placed by at(index); anything else at
-// (line, col, field).
-func (r *Reader) sampleError(err error, line, col int, field string, at func(i int) (int, int, string)) error {
+// sampleError maps an error from building a spectrum of n input samples
+// to a place in the file. A *colorimetry.SampleError is placed by
+// at(index); anything else at (line, col, field).
+func (r *Reader) sampleError(err error, n, line, col int, field string, at func(i int) (int, int, string)) error {
 	var se *colorimetry.SampleError
-	if errors.As(err, &se) && se.Index >= 0 {
+	if errors.As(err, &se) && se.Index >= 0 && se.Index < n {
 		l, c, f := at(se.Index)
 		return r.errorf(l, c, f, fmt.Errorf("%g nm: %w", se.Wavelength, se.Err))
 	}

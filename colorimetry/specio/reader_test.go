@@ -162,6 +162,15 @@ func TestReadGood(t *testing.T) {
 			},
 		},
 		{
+			// Two spectra named by numbers, without a wavelength label.
+			name: "two numeric names columns",
+			text: "Wellenlänge,1,2\n400,0.1,0.2\n410,0.4,0.5\n420,0.7,0.8\n",
+			want: []want{
+				{name: "1", line: 1, column: 2, start: 400, step: 10, values: []float64{0.1, 0.4, 0.7}},
+				{name: "2", line: 1, column: 3, start: 400, step: 10, values: []float64{0.2, 0.5, 0.8}},
+			},
+		},
+		{
 			// A rows header whose name column is labelled nm: the next
 			// record's name says rows.
 			name: "nm-labelled rows",
@@ -269,6 +278,7 @@ func TestReadErrors(t *testing.T) {
 		{name: "too few fields", file: "bad_ragged.csv", at: "bad_ragged.csv:3:3", sentinel: specio.ErrFieldCount},
 		{name: "too many fields", text: "name,400,410,420\nx,1,2,3,4\n", at: "test.csv:2:5", sentinel: specio.ErrFieldCount},
 		{name: "too few samples rows", text: "name,400,410\nx,1,2\n", layout: specio.LayoutRows, at: "test.csv:1:2", field: "400", sentinel: colorimetry.ErrTooFew},
+		{name: "too few samples rows detected", text: "name,400,410\nx,1,2\n", at: "test.csv:1:2", field: "400", sentinel: colorimetry.ErrTooFew},
 		{name: "too few samples columns", text: "nm,a\n400,1\n# two rows only\n410,2\n", at: "test.csv:4:1", sentinel: colorimetry.ErrTooFew},
 		{name: "empty cell rows", text: "name,400,410,420\nx,1,,3\n", at: "test.csv:2:3", field: "410", sentinel: specio.ErrEmpty},
 		{name: "empty cell columns", text: "nm,a,b\n400,1,\n410,2,2\n420,3,3\n", at: "test.csv:2:3", field: "b", sentinel: specio.ErrEmpty},
@@ -276,6 +286,10 @@ func TestReadErrors(t *testing.T) {
 		{name: "line too long", text: "nm,a\n400,1.000000000000000000000\n", maxLine: 16, at: "test.csv:2", sentinel: specio.ErrLineTooLong},
 		// 400.2–400.9 nm holds no whole 1 nm grid of 3 points (colorimetry.NewGrid).
 		{name: "irregular span too short", text: "name,400.2,400.5,400.9\nx,1,2,3\n", at: "test.csv:1:2", field: "400.2", sentinel: colorimetry.ErrBadGrid},
+		// A natural cubic spline through alternating ±1e308 overflows
+		// between the samples; the resampled values are checked.
+		{name: "resampling overflow rows", text: "name,400,401,403,406\nx,1e308,-1e308,1e308,-1e308\n", at: "test.csv:2:1", sentinel: colorimetry.ErrNotFinite},
+		{name: "resampling overflow columns", text: "nm,a\n400,1.7e308\n401,-1.7e308\n403,1.7e308\n406,-1.7e308\n", at: "test.csv:1:2", field: "a", sentinel: colorimetry.ErrNotFinite},
 		{name: "irregular span too wide", text: "name,1,2,1e9\nx,1,2,3\n", at: "test.csv:1:2", field: "1", sentinel: specio.ErrTooWide},
 	} {
 		in, file := readInput(t, tc.file, tc.text)
