@@ -140,7 +140,9 @@ func NewSpectrumWith(nm, values []float64, opt Options) (Spectrum, error) {
 	for i := range v {
 		v[i] = pred.Predict(g.Wavelength(i))
 		if !isFinite(v[i]) {
-			return Spectrum{}, &SampleError{Index: i, Wavelength: g.Wavelength(i), Err: fmt.Errorf("resampled value: %w", ErrNotFinite)}
+			// Not a SampleError: the index would be on the new grid, not
+			// among the caller's samples.
+			return Spectrum{}, fmt.Errorf("cubic spline through irregular samples overflows at %g nm: %w", g.Wavelength(i), ErrNotFinite)
 		}
 	}
 	return Spectrum{grid: g, values: v, interp: opt.Interp, extrap: opt.Extrap}, nil

@@ -672,11 +672,6 @@ func (r *Reader) sampleError(err error, n, line, col int, field string, at func(
 	return r.errorf(line, col, field, err)
 }
 
-// uniformTol is the relative spread of steps below which wavelengths count
-// as uniformly spaced; it matches colorimetry.NewSpectrumWith, which keeps
-// such data on their own grid and resamples all others.
-const uniformTol = 1e-4
-
 // checkSpan returns an error wrapping ErrTooWide when the wavelengths nm
 // are strictly increasing but irregular and their span would be resampled
 // onto a grid of more than MaxSamples samples. Uniform data keep their own
@@ -691,15 +686,7 @@ func (r *Reader) checkSpan(nm []float64) error {
 	if n < 2 {
 		return nil
 	}
-	step := (nm[n-1] - nm[0]) / float64(n-1)
-	uniform := true
-	for i := 1; i < n; i++ {
-		if math.Abs(nm[i]-nm[i-1]-step) > uniformTol*step {
-			uniform = false
-			break
-		}
-	}
-	if uniform {
+	if _, uniform := colorimetry.UniformStep(nm); uniform {
 		return nil
 	}
 	limit := r.MaxSamples
