@@ -118,20 +118,19 @@ func runDemo(e *env, args []string) error {
 }
 
 func demoDescribe(e *env, list []spectrumIn, o describeOpts, illName string, ill colorimetry.Spectrum) error {
-	obs := cie.CIE1931()
-	if o.observer == "1964" {
-		obs = cie.CIE1964()
+	d, err := newDescriberIll(e, o, ill, illName)
+	if err != nil {
+		return err
 	}
-	calc := newTristimulus(obs, ill, o.as == "light")
 	rows := make([]describeRow, 0, len(list))
 	for _, in := range list {
-		r, err := describeOne(calc, in, o, illName)
+		r, err := d.describe(in)
 		if err != nil {
 			return err
 		}
 		rows = append(rows, r)
 	}
 	fmt.Fprintln(e.stdout)
-	printDescribe(e.stdout, rows, o)
+	printDescribe(e.stdout, rows, d.o)
 	return nil
 }

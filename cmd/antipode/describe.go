@@ -2,10 +2,12 @@ package main
 
 import (
 	"encoding/json"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/antipode-color/antipode/colorimetry"
@@ -51,17 +53,52 @@ type describeRow struct {
 	Illum    *string  `json:"illuminant"`
 	Grid     string   `json:"grid"`
 	SRGB     *string  `json:"srgb"`
-	Warnings []string `json:"warnings"`
+	// Added by the colour-quantities issue; null where they do not apply.
+	L             *float64     `json:"L"`
+	A             *float64     `json:"a"`
+	B             *float64     `json:"b"`
+	C             *float64     `json:"C"`
+	H             *float64     `json:"h"`
+	CCT           *float64     `json:"cct_kelvin"`
+	Duv           *float64     `json:"duv"`
+	Dominant      *float64     `json:"dominant_wavelength_nm"`
+	Complementary *float64     `json:"complementary_wavelength_nm"`
+	Purity        *float64     `json:"excitation_purity"`
+	ColPurity     *float64     `json:"colorimetric_purity"`
+	White         *string      `json:"white"`
+	U             *uncertainty `json:"u"`
+	Warnings      []string     `json:"warnings"`
+}
+
+// uncertainty holds standard uncertainties of describe's quantities, in
+// the same units; null where not evaluated.
+type uncertainty struct {
+	X      *float64 `json:"X"`
+	Y      *float64 `json:"Y"`
+	Z      *float64 `json:"Z"`
+	SmallX *float64 `json:"x"`
+	SmallY *float64 `json:"y"`
+	UPrime *float64 `json:"u_prime"`
+	VPrime *float64 `json:"v_prime"`
+	L      *float64 `json:"L"`
+	A      *float64 `json:"a"`
+	B      *float64 `json:"b"`
+	C      *float64 `json:"C"`
+	H      *float64 `json:"h"`
+	Method string   `json:"method"`
 }
 
 type describeOpts struct {
-	columns    string
-	as         string
-	illuminant string
-	observer   string
-	scale      string
-	absolute   bool
-	json       bool
+	columns     string
+	as          string
+	illuminant  string
+	observer    string
+	scale       string
+	white       string
+	cctMethod   string
+	uncertainty string
+	absolute    bool
+	json        bool
 }
 
 func runDescribe(e *env, args []string) error {
@@ -74,6 +111,9 @@ func runDescribe(e *env, args []string) error {
 	fs.StringVar(&o.observer, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
 	fs.StringVar(&o.scale, "scale", "", "scale of reflectance or transmittance values: `fraction` (0–1) or percent (0–100); default: percent when the maximum exceeds 1.5")
 	fs.BoolVar(&o.absolute, "absolute", false, "lights: absolute photometric values (Km = 683.002 lm/W) instead of Y = 100")
+	fs.StringVar(&o.white, "white", "E", "lights: the illuminant `NAME` whose chromaticity is the white for dominant wavelength and purity (objects use the illuminant)")
+	fs.StringVar(&o.cctMethod, "cct-method", "ohno", "lights: CCT method, `ohno` (Ohno 2014) or robertson (Robertson 1968)")
+	fs.StringVar(&o.uncertainty, "uncertainty", "", "standard uncertainty of every sample: a `VALUE` in the file's units, or a spectral FILE (one spectrum for all, or one per name)")
 	fs.BoolVar(&o.json, "json", false, "print JSON instead of a table")
 	files, err := parseFlags(c, fs, e, args)
 	if err != nil {
@@ -95,19 +135,10 @@ func runDescribe(e *env, args []string) error {
 	if o.absolute && o.as != "light" {
 		return usagef("--absolute applies to --as light only")
 	}
-	obs, err := observerFlag(o.observer)
+	d, err := newDescriber(e, o)
 	if err != nil {
 		return err
 	}
-	var ill colorimetry.Spectrum
-	var illName string
-	if o.as != "light" {
-		ill, illName, err = illuminantFlag(e, o.illuminant)
-		if err != nil {
-			return err
-		}
-	}
-	calc := newTristimulus(obs, ill, o.as == "light")
 	var rows []describeRow
 	for _, f := range files {
 		list, err := readSpectra(e, f)
@@ -118,7 +149,7 @@ func runDescribe(e *env, args []string) error {
 			return err
 		}
 		for _, in := range list {
-			r, err := describeOne(calc, in, o, illName)
+			r, err := d.describe(in)
 			if err != nil {
 				return err
 			}
@@ -130,6 +161,137 @@ func runDescribe(e *env, args []string) error {
 	}
 	printDescribe(e.stdout, rows, o)
 	return nil
+}
+
+// describer computes describe's quantities for one set of options.
+type describer struct {
+	o       describeOpts
+	calc    *tristimulus
+	illName string
+	locus   *colorimetry.SpectrumLocus
+	planck  *colorimetry.PlanckianTable
+	method  colorimetry.CCTMethod
+	white   colorimetry.XY // white for dominant wavelength (lights)
+	wname   string
+	uValue  float64      // constant standard uncertainty, or
+	uFile   []spectrumIn // uncertainty spectra
+	uSource string       // what was given to --uncertainty
+}
+
+func newDescriber(e *env, o describeOpts) (*describer, error) {
+	var ill colorimetry.Spectrum
+	var illName string
+	if o.as != "light" {
+		var err error
+		ill, illName, err = illuminantFlag(e, o.illuminant)
+		if err != nil {
+			return nil, err
+		}
+	}
+	return newDescriberIll(e, o, ill, illName)
+}
+
+// newDescriberIll is newDescriber with the illuminant already resolved.
+func newDescriberIll(e *env, o describeOpts, ill colorimetry.Spectrum, illName string) (*describer, error) {
+	if o.observer == "" {
+		o.observer = "1931"
+	}
+	if o.white == "" {
+		o.white = "E"
+	}
+	if o.cctMethod == "" {
+		o.cctMethod = "ohno"
+	}
+	obs, err := observerFlag(o.observer)
+	if err != nil {
+		return nil, err
+	}
+	d := &describer{o: o, illName: illName}
+	d.calc = newTristimulus(obs, ill, o.as == "light")
+	if d.locus, err = colorimetry.NewSpectrumLocus(obs); err != nil {
+		return nil, err
+	}
+	if o.as == "light" {
+		switch o.cctMethod {
+		case "ohno":
+			d.method = colorimetry.CCTOhno
+		case "robertson":
+			d.method = colorimetry.CCTRobertson
+		default:
+			return nil, usagef("--cct-method %s: want ohno or robertson", o.cctMethod)
+		}
+		if d.planck, err = colorimetry.NewPlanckianTable(obs, colorimetry.C2); err != nil {
+			return nil, err
+		}
+		ws, name, err := illuminantFlag(e, o.white)
+		if err != nil {
+			return nil, usagef("--white %s: %v", o.white, err)
+		}
+		wc, err := newTristimulus(obs, colorimetry.Spectrum{}, true).xyzOnly(ws)
+		if err != nil {
+			return nil, fmt.Errorf("--white %s: %v", o.white, err)
+		}
+		if d.white, err = wc.XY(); err != nil {
+			return nil, fmt.Errorf("--white %s: %v", o.white, err)
+		}
+		d.wname = name
+	}
+	if o.uncertainty != "" {
+		d.uSource = o.uncertainty
+		if v, perr := strconv.ParseFloat(o.uncertainty, 64); perr == nil {
+			if !(v >= 0) || math.IsInf(v, 0) {
+				return nil, usagef("--uncertainty %s: want a non-negative number or a file", o.uncertainty)
+			}
+			d.uValue = v
+		} else {
+			if d.uFile, err = readSpectra(e, o.uncertainty); err != nil {
+				return nil, err
+			}
+		}
+	}
+	return d, nil
+}
+
+// uncertaintyFor returns the per-sample standard uncertainty of in on its
+// own grid, in the file's units, or ok = false when none was given.
+func (d *describer) uncertaintyFor(in spectrumIn) ([]float64, bool, error) {
+	if d.o.uncertainty == "" {
+		return nil, false, nil
+	}
+	n := in.s.Len()
+	u := make([]float64, n)
+	if d.uFile == nil {
+		for i := range u {
+			u[i] = d.uValue
+		}
+		return u, true, nil
+	}
+	src := d.uFile[0]
+	if len(d.uFile) > 1 {
+		found := false
+		for _, c := range d.uFile {
+			if c.name == in.name {
+				src, found = c, true
+				break
+			}
+		}
+		if !found {
+			return nil, false, fmt.Errorf("%s: no uncertainty spectrum named %q (a file of several uncertainty spectra needs one per name)", d.uSource, in.name)
+		}
+	}
+	// Standard uncertainties are taken at the data's wavelengths by linear
+	// interpolation of the uncertainty spectrum.
+	r, err := src.s.WithInterp(colorimetry.InterpLinear).Resample(in.s.Grid())
+	if err != nil {
+		return nil, false, fmt.Errorf("%s: %v", d.uSource, err)
+	}
+	r.Values(u)
+	for i, v := range u {
+		if v < 0 {
+			return nil, false, fmt.Errorf("%s: spectrum %q: negative standard uncertainty %g at %g nm", d.uSource, src.name, v, in.s.Grid().Wavelength(i))
+		}
+	}
+	return u, true, nil
 }
 
 // tristimulus computes XYZ with weighting tables cached per grid.
@@ -144,9 +306,9 @@ func newTristimulus(obs *colorimetry.Observer, ill colorimetry.Spectrum, light b
 	return &tristimulus{obs: obs, ill: ill, light: light, cache: map[colorimetry.Grid]*colorimetry.Weights{}}
 }
 
-// xyz returns the tristimulus values of s on the computation grid that
-// suits its sampling (colorimetry.ComputationGrid).
-func (t *tristimulus) xyz(s colorimetry.Spectrum) (colorimetry.XYZ, colorimetry.Grid, error) {
+// weights returns the weighting table for the computation grid that suits
+// s's sampling (colorimetry.ComputationGrid), building it once per grid.
+func (t *tristimulus) weights(s colorimetry.Spectrum) (*colorimetry.Weights, colorimetry.Grid, error) {
 	g := colorimetry.ComputationGrid(s.Grid())
 	w, ok := t.cache[g]
 	if !ok {
@@ -157,21 +319,32 @@ func (t *tristimulus) xyz(s colorimetry.Spectrum) (colorimetry.XYZ, colorimetry.
 			w, err = colorimetry.NewObjectWeights(t.obs, t.ill, g)
 		}
 		if err != nil {
-			return colorimetry.XYZ{}, g, err
+			return nil, g, err
 		}
 		t.cache[g] = w
 	}
-	c, err := w.XYZ(s)
-	return c, g, err
+	return w, g, nil
 }
 
-func describeOne(calc *tristimulus, in spectrumIn, o describeOpts, illName string) (describeRow, error) {
+// xyzOnly returns the tristimulus values of s.
+func (t *tristimulus) xyzOnly(s colorimetry.Spectrum) (colorimetry.XYZ, error) {
+	w, _, err := t.weights(s)
+	if err != nil {
+		return colorimetry.XYZ{}, err
+	}
+	return w.XYZ(s)
+}
+
+// describe computes one spectrum's row.
+func (d *describer) describe(in spectrumIn) (describeRow, error) {
+	o, calc := d.o, d.calc
 	r := describeRow{Name: in.name, File: in.file, As: o.as, Observer: calc.obs.Name(), Warnings: []string{}}
 	where := fmt.Sprintf("%s: spectrum %q", in.file, in.name)
 	if in.line > 0 {
 		where = fmt.Sprintf("%s:%d: spectrum %q", in.file, in.line, in.name)
 	}
 	s := in.s
+	factor := 1.0 // from the file's units to the computation's
 	if o.as == "light" {
 		s = s.WithExtrap(colorimetry.ExtrapZero)
 		if v, nm := s.Min(); v < 0 {
@@ -182,7 +355,7 @@ func describeOne(calc *tristimulus, in spectrumIn, o describeOpts, illName strin
 			r.Warnings = append(r.Warnings, fmt.Sprintf("small negative values (down to %.3g at %g nm) taken as noise", v, nm))
 		}
 	} else {
-		r.Illum = &illName
+		r.Illum = &d.illName
 		scale := o.scale
 		peak, _ := s.Max()
 		if scale == "" {
@@ -193,7 +366,8 @@ func describeOne(calc *tristimulus, in spectrumIn, o describeOpts, illName strin
 			}
 		}
 		if scale == "percent" {
-			s = s.Scale(0.01)
+			factor = 0.01
+			s = s.Scale(factor)
 			peak /= 100
 		}
 		r.Scale = &scale
@@ -206,43 +380,151 @@ func describeOne(calc *tristimulus, in spectrumIn, o describeOpts, illName strin
 			r.Warnings = append(r.Warnings, fmt.Sprintf("transmittance reaches %.4g, above 1", peak))
 		}
 	}
-	c, g, err := calc.xyz(s)
+	w, g, err := calc.weights(s)
+	if err != nil {
+		return r, fmt.Errorf("%s: %v", where, err)
+	}
+	c, err := w.XYZ(s)
 	if err != nil {
 		return r, fmt.Errorf("%s: %v", where, err)
 	}
 	r.Grid = g.String()
+	norm := 1.0 // relative lights: Y = 100
 	if o.as == "light" && !o.absolute {
-		if c, err = c.ScaleToY(100); err != nil {
+		if c.Y == 0 {
 			return r, fmt.Errorf("%s: the light has no luminance (Y = 0)", where)
 		}
+		norm = 100 / c.Y
+		c = c.Scale(norm)
 	}
 	r.X, r.Y, r.Z = c.X, c.Y, c.Z
-	if xy, err := c.XY(); err == nil {
-		r.SmallX, r.SmallY = &xy.X, &xy.Y
-		uv, _ := c.UVPrime()
-		r.UPrime, r.VPrime = &uv.U, &uv.V
-	} else {
+	xy, err := c.XY()
+	if err != nil {
 		r.Warnings = append(r.Warnings, "black (X + Y + Z = 0): chromaticity undefined")
+		return r, nil
 	}
-	if o.as != "light" {
-		hex, inGamut, err := srgbSwatch(c, calc.white())
-		if err == nil {
+	r.SmallX, r.SmallY = &xy.X, &xy.Y
+	uv, _ := c.UVPrime()
+	r.UPrime, r.VPrime = &uv.U, &uv.V
+
+	white := d.white
+	if o.as == "light" {
+		r.White = &d.wname
+		d.cct(&r, c)
+	} else {
+		wxyz := w.White()
+		white, _ = wxyz.XY()
+		lab, err := c.Lab(wxyz)
+		if err != nil {
+			return r, fmt.Errorf("%s: %v", where, err)
+		}
+		lch := lab.LCh()
+		r.L, r.A, r.B, r.C, r.H = ptr(lab.L), ptr(lab.A), ptr(lab.B), ptr(lch.C), ptr(lch.H)
+		r.White = &d.illName
+		if hex, inGamut, err := srgbSwatch(c, wxyz); err == nil {
 			r.SRGB = &hex
 			if !inGamut {
 				r.Warnings = append(r.Warnings, "outside the sRGB gamut: the swatch "+hex+" is clipped")
 			}
 		}
 	}
+	if dom, err := d.locus.Dominant(xy, white); err == nil {
+		if dom.Complementary {
+			r.Complementary = ptr(dom.Wavelength)
+		} else {
+			r.Dominant = ptr(dom.Wavelength)
+		}
+		r.Purity = ptr(dom.ExcitationPurity)
+		r.ColPurity = ptr(dom.ColorimetricPurity)
+	} else {
+		r.Warnings = append(r.Warnings, "dominant wavelength undefined: "+err.Error())
+	}
+
+	u, ok, err := d.uncertaintyFor(in)
+	if err != nil {
+		return r, err
+	}
+	if ok {
+		for i := range u {
+			u[i] *= factor
+		}
+		if err := d.propagate(&r, w, s, u, norm); err != nil {
+			return r, fmt.Errorf("%s: uncertainty: %v", where, err)
+		}
+	}
 	return r, nil
 }
 
-// white returns the perfect diffuser's XYZ under the object illuminant.
-func (t *tristimulus) white() colorimetry.XYZ {
-	for _, w := range t.cache {
-		return w.White()
+// cct fills the correlated colour temperature and Duv of a light, or
+// leaves them null with a warning outside the range where CCT is defined.
+func (d *describer) cct(r *describeRow, c colorimetry.XYZ) {
+	uv, err := c.UV()
+	if err != nil {
+		return
 	}
-	return colorimetry.XYZ{}
+	t, err := d.planck.CCT(uv, d.method)
+	if err != nil {
+		var re *colorimetry.CCTRangeError
+		if errors.As(err, &re) {
+			r.Warnings = append(r.Warnings, err.Error())
+			return
+		}
+		r.Warnings = append(r.Warnings, "CCT not computed: "+err.Error())
+		return
+	}
+	r.CCT, r.Duv = ptr(t.Kelvin), ptr(t.Duv)
 }
+
+// propagate fills r.U from the per-sample standard uncertainties u of s
+// (uncorrelated, JCGM 100:2008), scaled by norm for relative lights.
+func (d *describer) propagate(r *describeRow, w *colorimetry.Weights, s colorimetry.Spectrum, u []float64, norm float64) error {
+	su, err := colorimetry.NewSpectrumUncertainty(s.Grid(), u)
+	if err != nil {
+		return err
+	}
+	x, err := w.XYZCov(s, su)
+	if err != nil {
+		return err
+	}
+	x = x.Scale(norm)
+	out := &uncertainty{Method: colorimetry.Propagation{}.String()}
+	if d.o.as != "light" || d.o.absolute {
+		ux := x.U()
+		out.X, out.Y, out.Z = ptr(ux.X), ptr(ux.Y), ptr(ux.Z)
+	}
+	if d.o.as == "light" {
+		// Relative lights: X, Y, Z are normalised away; chromaticity keeps
+		// its uncertainty, which does not depend on the scale.
+		pxy, err := colorimetry.PropagateXY(x)
+		if err != nil {
+			return err
+		}
+		puv, err := colorimetry.PropagateUVPrime(x)
+		if err != nil {
+			return err
+		}
+		out.SmallX, out.SmallY = ptr(pxy.U().X), ptr(pxy.U().Y)
+		out.UPrime, out.VPrime = ptr(puv.U().U), ptr(puv.U().V)
+		r.U = out
+		return nil
+	}
+	pc, err := colorimetry.PropagateColour(x, w.White(), colorimetry.MonteCarlo{})
+	if err != nil {
+		return err
+	}
+	out.SmallX, out.SmallY = ptr(pc.XY.U().X), ptr(pc.XY.U().Y)
+	out.UPrime, out.VPrime = ptr(pc.UVPrime.U().U), ptr(pc.UVPrime.U().V)
+	ul := pc.Lab.U()
+	out.L, out.A, out.B = ptr(ul.L), ptr(ul.A), ptr(ul.B)
+	out.C, out.H = ptr(pc.LCh.C.U), ptr(pc.LCh.H.U)
+	if pc.LCh.C.Method.Draws > 0 {
+		out.Method += "; C and h: " + pc.LCh.C.Method.String()
+	}
+	r.U = out
+	return nil
+}
+
+func ptr(v float64) *float64 { return &v }
 
 // d65sRGB is the white of IEC 61966-2-1 (sRGB), x = 0.3127, y = 0.3290,
 // at Y = 100.
@@ -276,11 +558,12 @@ func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
 		fmt.Fprintln(w, "no spectra")
 		return
 	}
+	light := o.as == "light"
 	what := o.as
 	switch {
-	case o.as == "light" && o.absolute:
+	case light && o.absolute:
 		what += ", absolute (Km = 683.002 lm/W)"
-	case o.as == "light":
+	case light:
 		what += ", relative: Y = 100 for each light"
 	default:
 		what += fmt.Sprintf(" under %s, perfect diffuser Y = 100", *rows[0].Illum)
@@ -290,14 +573,54 @@ func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
 	for _, r := range rows {
 		nameW = max(nameW, len([]rune(r.Name)))
 	}
-	fmt.Fprintf(w, "%-*s  %9s %9s %9s  %7s %7s  %7s %7s  %s\n", nameW, "name", "X", "Y", "Z", "x", "y", "u′", "v′", "sRGB")
+	t := &table{}
+	if light {
+		t.header("name", "X", "Y", "Z", "x", "y", "u′", "v′", "CCT K", "Duv", "λd nm", "pe")
+	} else {
+		t.header("name", "X", "Y", "Z", "x", "y", "L*", "a*", "b*", "C*ab", "hab", "λd nm", "pe", "sRGB")
+	}
 	for _, r := range rows {
-		sw := "—"
-		if r.SRGB != nil {
-			sw = *r.SRGB
+		row := []string{r.Name, fmt.Sprintf("%.4f", r.X), fmt.Sprintf("%.4f", r.Y), fmt.Sprintf("%.4f", r.Z), f4(r.SmallX), f4(r.SmallY)}
+		dom := "—"
+		switch {
+		case r.Dominant != nil:
+			dom = fmt.Sprintf("%.1f", *r.Dominant)
+		case r.Complementary != nil:
+			dom = fmt.Sprintf("−%.1f", *r.Complementary)
 		}
-		fmt.Fprintf(w, "%-*s  %9.4f %9.4f %9.4f  %7s %7s  %7s %7s  %s\n", nameW, r.Name, r.X, r.Y, r.Z,
-			f4(r.SmallX), f4(r.SmallY), f4(r.UPrime), f4(r.VPrime), sw)
+		if light {
+			row = append(row, f4(r.UPrime), f4(r.VPrime), fmtOpt(r.CCT, "%.0f"), fmtOpt(r.Duv, "%+.4f"), dom, fmtOpt(r.Purity, "%.3f"))
+		} else {
+			sw := "—"
+			if r.SRGB != nil {
+				sw = *r.SRGB
+			}
+			row = append(row, fmtOpt(r.L, "%.2f"), fmtOpt(r.A, "%.2f"), fmtOpt(r.B, "%.2f"), fmtOpt(r.C, "%.2f"), fmtOpt(r.H, "%.1f"), dom, fmtOpt(r.Purity, "%.3f"), sw)
+		}
+		t.row(row...)
+	}
+	t.write(w)
+	if rows[0].U != nil {
+		fmt.Fprintf(w, "\nstandard uncertainties (k = 1), from uncorrelated per-sample uncertainties %s:\n", o.uncertainty)
+		u := &table{}
+		if light {
+			u.header("name", "u(X)", "u(Y)", "u(Z)", "u(x)", "u(y)", "u(u′)", "u(v′)", "method")
+		} else {
+			u.header("name", "u(X)", "u(Y)", "u(Z)", "u(x)", "u(y)", "u(L*)", "u(a*)", "u(b*)", "u(C*ab)", "u(hab)", "method")
+		}
+		for _, r := range rows {
+			if r.U == nil {
+				continue
+			}
+			v := []string{r.Name, fmtOpt(r.U.X, "%.4f"), fmtOpt(r.U.Y, "%.4f"), fmtOpt(r.U.Z, "%.4f"), fmtOpt(r.U.SmallX, "%.5f"), fmtOpt(r.U.SmallY, "%.5f")}
+			if light {
+				v = append(v, fmtOpt(r.U.UPrime, "%.5f"), fmtOpt(r.U.VPrime, "%.5f"))
+			} else {
+				v = append(v, fmtOpt(r.U.L, "%.3f"), fmtOpt(r.U.A, "%.3f"), fmtOpt(r.U.B, "%.3f"), fmtOpt(r.U.C, "%.3f"), fmtOpt(r.U.H, "%.2f"))
+			}
+			u.row(append(v, r.U.Method)...)
+		}
+		u.write(w)
 	}
 	var notes []string
 	for _, r := range rows {
@@ -308,7 +631,12 @@ func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
 	if len(notes) > 0 {
 		fmt.Fprintf(w, "\nwarnings:\n  %s\n", strings.Join(notes, "\n  "))
 	}
-	fmt.Fprintf(w, "\ngrid: %s\n", gridsUsed(rows))
+	white := "the illuminant"
+	if light && rows[0].White != nil {
+		white = *rows[0].White
+	}
+	fmt.Fprintf(w, "\nλd: dominant wavelength relative to %s (negative: complementary wavelength of a purple, CIE 015); pe: excitation purity.\n", white)
+	fmt.Fprintf(w, "grid: %s\n", gridsUsed(rows))
 }
 
 func gridsUsed(rows []describeRow) string {
@@ -324,9 +652,12 @@ func gridsUsed(rows []describeRow) string {
 }
 
 // f4 formats an optional number with 4 decimals, "—" when absent.
-func f4(v *float64) string {
+func f4(v *float64) string { return fmtOpt(v, "%.4f") }
+
+// fmtOpt formats an optional number, "—" when absent.
+func fmtOpt(v *float64, format string) string {
 	if v == nil {
 		return "—"
 	}
-	return fmt.Sprintf("%.4f", *v)
+	return fmt.Sprintf(format, *v)
 }

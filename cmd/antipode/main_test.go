@@ -151,9 +151,15 @@ func TestDescribeAgreesWithLibrary(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	line := fmt.Sprintf("%.4f %9.4f %9.4f", want.X, want.Y, want.Z)
-	if !strings.Contains(out, line) {
-		t.Errorf("output lacks %q:\n%s", line, out)
+	var fields []string
+	for _, line := range strings.Split(out, "\n") {
+		if strings.HasPrefix(line, list[1].name+" ") {
+			fields = strings.Fields(line)
+		}
+	}
+	wantF := []string{fmt.Sprintf("%.4f", want.X), fmt.Sprintf("%.4f", want.Y), fmt.Sprintf("%.4f", want.Z)}
+	if len(fields) < 4 || fields[1] != wantF[0] || fields[2] != wantF[1] || fields[3] != wantF[2] {
+		t.Errorf("row %v, want X Y Z %v:\n%s", fields, wantF, out)
 	}
 }
 
