@@ -339,10 +339,7 @@ func (t *tristimulus) xyzOnly(s colorimetry.Spectrum) (colorimetry.XYZ, error) {
 func (d *describer) describe(in spectrumIn) (describeRow, error) {
 	o, calc := d.o, d.calc
 	r := describeRow{Name: in.name, File: in.file, As: o.as, Observer: calc.obs.Name(), Warnings: []string{}}
-	where := fmt.Sprintf("%s: spectrum %q", in.file, in.name)
-	if in.line > 0 {
-		where = fmt.Sprintf("%s:%d: spectrum %q", in.file, in.line, in.name)
-	}
+	where := in.place()
 	s := in.s
 	factor := 1.0 // from the file's units to the computation's
 	if o.as == "light" {
@@ -356,29 +353,13 @@ func (d *describer) describe(in spectrumIn) (describeRow, error) {
 		}
 	} else {
 		r.Illum = &d.illName
-		scale := o.scale
-		peak, _ := s.Max()
-		if scale == "" {
-			scale = "fraction"
-			if peak > 1.5 {
-				scale = "percent"
-				r.Warnings = append(r.Warnings, fmt.Sprintf("values taken as percent (maximum %.4g > 1.5); say --scale to choose", peak))
-			}
+		var warns []string
+		var err error
+		s, factor, r.Scale, warns, err = asFraction(in, o.scale, o.as)
+		if err != nil {
+			return r, err
 		}
-		if scale == "percent" {
-			factor = 0.01
-			s = s.Scale(factor)
-			peak /= 100
-		}
-		r.Scale = &scale
-		// 0.01 below zero is spectrophotometer noise near black: common
-		// practice (no source).
-		if err := s.CheckFraction(0.01); err != nil {
-			return r, fmt.Errorf("%s: %v", where, err)
-		}
-		if peak > 1.05 && o.as == "transmittance" {
-			r.Warnings = append(r.Warnings, fmt.Sprintf("transmittance reaches %.4g, above 1", peak))
-		}
+		r.Warnings = append(r.Warnings, warns...)
 	}
 	w, g, err := calc.weights(s)
 	if err != nil {

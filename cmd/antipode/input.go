@@ -108,3 +108,60 @@ func illuminantFlag(e *env, name string) (colorimetry.Spectrum, string, error) {
 	// A measured light: zero outside its measured range.
 	return list[0].s.WithExtrap(colorimetry.ExtrapZero), list[0].name, nil
 }
+
+// place names a spectrum in messages: "file:line: spectrum "name"".
+func (in spectrumIn) place() string {
+	if in.line > 0 {
+		return fmt.Sprintf("%s:%d: spectrum %q", in.file, in.line, in.name)
+	}
+	return fmt.Sprintf("%s: spectrum %q", in.file, in.name)
+}
+
+// asFraction returns the reflectance or transmittance in as a fraction
+// 0–1: scale is "fraction", "percent", or "" to take percent when the
+// maximum exceeds 1.5. It returns the factor applied, the scale used and
+// any warnings, and an error naming the file and wavelength for values
+// below zero beyond noise.
+func asFraction(in spectrumIn, scale, as string) (colorimetry.Spectrum, float64, *string, []string, error) {
+	s := in.s
+	var warns []string
+	peak, _ := s.Max()
+	if scale == "" {
+		scale = "fraction"
+		if peak > 1.5 {
+			scale = "percent"
+			warns = append(warns, fmt.Sprintf("values taken as percent (maximum %.4g > 1.5); say --scale to choose", peak))
+		}
+	}
+	factor := 1.0
+	if scale == "percent" {
+		factor = 0.01
+		s = s.Scale(factor)
+		peak /= 100
+	}
+	// 0.01 below zero is spectrophotometer noise near black: common
+	// practice (no source).
+	if err := s.CheckFraction(0.01); err != nil {
+		return s, factor, &scale, warns, fmt.Errorf("%s: %v", in.place(), err)
+	}
+	if peak > 1.05 && as == "transmittance" {
+		warns = append(warns, fmt.Sprintf("transmittance reaches %.4g, above 1", peak))
+	}
+	return s, factor, &scale, warns, nil
+}
+
+// spectrumArg resolves a FILE or FILE:NAME argument to its spectra: all of
+// the file's, or the one named.
+func spectrumArg(e *env, arg string) ([]spectrumIn, error) {
+	file, col := arg, ""
+	if _, err := os.Stat(file); err != nil && arg != "-" {
+		if i := strings.LastIndex(arg, ":"); i > 0 {
+			file, col = arg[:i], arg[i+1:]
+		}
+	}
+	list, err := readSpectra(e, file)
+	if err != nil {
+		return nil, err
+	}
+	return selectColumns(list, col, file)
+}

@@ -263,3 +263,57 @@ func TestSRGBSwatch(t *testing.T) {
 		}
 	}
 }
+
+func TestCompareJSON(t *testing.T) {
+	t.Parallel()
+	code, out, errs := runCLI(t, "", "compare", "demo/paints.csv:ky-sage", "demo/paints.csv", "--also", "A,F11", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var rows []map[string]any
+	if err := json.Unmarshal([]byte(out), &rows); err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 8 {
+		t.Fatalf("%d rows, want 8", len(rows))
+	}
+	// Keys named in the colour-quantities issue are a contract.
+	for _, k := range []string{"dE76", "dE94", "dECMC", "dE00", "metamerism", "warnings"} {
+		if _, ok := rows[0][k]; !ok {
+			t.Errorf("key %q missing", k)
+		}
+	}
+	// The library computed directly: ΔE00 of sage against teal under D65/2°.
+	list, _ := demoData("paints.csv")
+	var sage, teal colorimetry.Spectrum
+	for _, s := range list {
+		switch s.name {
+		case "ky-sage":
+			sage = s.s
+		case "ky-teal":
+			teal = s.s
+		}
+	}
+	w, _ := colorimetry.NewObjectWeights(cie.CIE1931(), cie.D65(), colorimetry.Grid5nm)
+	a, _ := w.XYZ(sage)
+	b, _ := w.XYZ(teal)
+	la, _ := a.Lab(w.White())
+	lb, _ := b.Lab(w.White())
+	want := colorimetry.DeltaE2000(la, lb)
+	for _, r := range rows {
+		m := r["metamerism"].(map[string]any)
+		if _, ok := m["F11"]; !ok {
+			t.Errorf("%v: metamerism lacks F11: %v", r["sample"], m)
+		}
+		switch r["sample"] {
+		case "ky-teal":
+			if got := r["dE00"].(float64); math.Abs(got-want) > 1e-12 {
+				t.Errorf("dE00 %g, library %g", got, want)
+			}
+		case "ky-sage":
+			if r["dE00"].(float64) != 0 || m["A"].(float64) != 0 {
+				t.Errorf("identical pair: %v", r)
+			}
+		}
+	}
+}
