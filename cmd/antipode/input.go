@@ -165,3 +165,17 @@ func spectrumArg(e *env, arg string) ([]spectrumIn, error) {
 	}
 	return selectColumns(list, col, file)
 }
+
+// fileOf returns the file part of a FILE or FILE:NAME argument.
+func fileOf(arg string) string {
+	if _, err := os.Stat(arg); err == nil {
+		return arg
+	}
+	if i := strings.LastIndex(arg, ":"); i > 0 {
+		return arg[:i]
+	}
+	return arg
+}
+
+// joinLines joins warnings for the indented warnings block.
+func joinLines(s []string) string { return strings.Join(s, "\n  ") }

@@ -62,7 +62,7 @@ measurement layout each kind expects.`,
 (drive levels 0–1 for lights, concentrations for dyes, mass fractions for
 pigments, coverages 0–1 for halftone inks).`,
 		example: `  $ antipode mix rig.json --amounts red=0.8,green=0.35,blue=0.1`,
-		run: runMix,
+		run:     runMix,
 	})
 	register(&command{
 		name:    "solve",

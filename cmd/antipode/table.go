@@ -11,6 +11,8 @@ import (
 // the others right-aligned, two spaces apart.
 type table struct {
 	rows [][]string
+	// left marks further columns to align left (notes, names).
+	left map[int]bool
 }
 
 func (t *table) header(cells ...string) { t.rows = append(t.rows, cells) }
@@ -30,9 +32,12 @@ func (t *table) write(w io.Writer) {
 		var b strings.Builder
 		for i, c := range r {
 			pad := strings.Repeat(" ", width[i]-utf8.RuneCountInString(c))
-			if i == 0 {
+			switch {
+			case i == 0:
 				b.WriteString(c + pad)
-			} else {
+			case t.left[i]:
+				b.WriteString("  " + c + pad)
+			default:
 				b.WriteString("  " + pad + c)
 			}
 		}

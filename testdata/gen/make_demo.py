@@ -44,6 +44,7 @@ def lamps():
     s["wash-green"] = [gauss(n, 522, 32) for n in NM]
     s["wash-blue"] = [gauss(n, 455, 22) for n in NM]
     s["wash-amber"] = [gauss(n, 592, 16) for n in NM]
+    s["wash-cyan"] = [1.5046 * gauss(n, 488.27, 24) for n in NM]
     s["wash-lime"] = [0.08 * gauss(n, 450, 20) + 0.9 * gauss(n, 560, 95) for n in NM]
     # Cool white batten: blue pump plus a broad phosphor band.
     s["batten-cool-white"] = [gauss(n, 452, 20) + 0.62 * gauss(n, 565, 120) for n in NM]
@@ -57,8 +58,8 @@ def filters():
     s["gel-steel-blue"] = [0.05 + 0.75 * gauss(n, 470, 110) for n in NM]
     s["gel-magenta"] = [0.02 + 0.85 * (gauss(n, 430, 70) + logistic(n, 610, 12)) / 1.02 for n in NM]
     s["gel-leaf-green"] = [0.01 + 0.80 * gauss(n, 530, 60) for n in NM]
-    s["gel-deep-amber"] = [0.02 + 0.90 * logistic(n, 575, 10) for n in NM]
-    s["gel-cyan"] = [0.03 + 0.85 * (1 - logistic(n, 585, 12)) for n in NM]
+    s["gel-deep-amber"] = [0.004 + 0.90 * logistic(n, 585, 7) for n in NM]
+    s["gel-cyan"] = [0.003 + 0.85 * (1 - logistic(n, 548, 7)) for n in NM]
     return {k: [min(max(x, 0.0), 1.0) for x in v] for k, v in s.items()}
 
 

@@ -1,0 +1,111 @@
+package main
+
+import (
+	"flag"
+	"fmt"
+
+	"github.com/antipode-color/antipode/colorimetry"
+	"github.com/antipode-color/antipode/complement"
+)
+
+func init() {
+	register(&command{
+		name:    "partner",
+		summary: "rank a library of spectra as complement partners of a spectrum",
+		usage:   "partner A LIBRARY [--mode additive|subtractive] [--as light|reflectance|transmittance] [--illuminant NAME|FILE] [--observer 1931|1964] [--top 10] [--json]",
+		about: `Ranks every spectrum of LIBRARY as a complement partner of A, best first.
+Additive: by Δu′v′ of the best-ratio mix to the white, then by the white's
+distance from the line A–partner. Subtractive (stacked filters): by the stack's
+luminous transmittance Y, then by its chroma. LIBRARY may be any spectral file
+(the wavelength-rows layout suits large libraries); tristimulus values are
+computed once for the whole library, so 100 000 candidates take a fraction of
+a second. The verdicts and tolerances are those of 'antipode pair'.`,
+		example: `  $ antipode partner cmd/antipode/demo/filters.csv:gel-deep-amber cmd/antipode/demo/filters.csv --mode subtractive --top 3
+  $ antipode partner lamps.csv:wash-amber lamps.csv --json`,
+		run: runPartner,
+	})
+}
+
+func runPartner(e *env, args []string) error {
+	var pf pairFlags
+	var top int
+	var asJSON bool
+	fs := flag.NewFlagSet("partner", flag.ContinueOnError)
+	pf.define(fs)
+	fs.IntVar(&top, "top", 10, "show the best `N` candidates (0: all)")
+	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
+	pos, err := parseFlags(commands["partner"], fs, e, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) != 2 {
+		return usagef("want a spectrum A and a LIBRARY (got %d arguments)", len(pos))
+	}
+	if top < 0 {
+		return usagef("--top %d: want 0 or more", top)
+	}
+	m, cond, illName, err := pf.resolve(e)
+	if err != nil {
+		return err
+	}
+	inA, a, _, err := pf.load(e, pos[0], "A")
+	if err != nil {
+		return err
+	}
+	lib, err := spectrumArg(e, pos[1])
+	if err != nil {
+		return err
+	}
+	names := make([]string, len(lib))
+	spectra := make([]colorimetry.Spectrum, len(lib))
+	for i, in := range lib {
+		names[i] = in.name
+		if pf.as == "light" {
+			spectra[i] = in.s.WithExtrap(colorimetry.ExtrapZero)
+			continue
+		}
+		if spectra[i], _, _, _, err = asFraction(in, pf.scale, pf.as); err != nil {
+			return err
+		}
+	}
+	l, err := cond.NewLibrary(names, spectra)
+	if err != nil {
+		return libraryError(err, pos[1])
+	}
+	ranked, err := l.Partners(a, m, pf.opt)
+	if err != nil {
+		return pairError(err, inA, inA)
+	}
+	if top > 0 && len(ranked) > top {
+		ranked = ranked[:top]
+	}
+	if asJSON {
+		if ranked == nil {
+			ranked = []complement.Partner{}
+		}
+		return writeJSON(e.stdout, ranked)
+	}
+	w := e.stdout
+	fmt.Fprintf(w, "partners of %s from %s (%d candidates), %s, white %s, %s observer\n\n", inA.name, pos[1], len(lib), pf.mode, illName, cond.Observer().Name())
+	t := &table{left: map[int]bool{2: true}}
+	if m == complement.Filters {
+		t.header("rank", "name", "verdict", "stack Y", "stack C*ab")
+		for i, p := range ranked {
+			t.row(fmt.Sprint(i+1), p.Name, string(p.Verdict), fmtOpt(p.StackY, "%.3f"), fmtOpt(p.StackChroma, "%.2f"))
+		}
+	} else {
+		t.header("rank", "name", "verdict", "Δu′v′ at best ratio", "line distance", "ratio A:B (lum.)", "spectral RMS")
+		for i, p := range ranked {
+			t.row(fmt.Sprint(i+1), p.Name, string(p.Verdict), fmtOpt(p.DeltaUVPrime, "%.5f"), fmtOpt(p.LineDistanceUVPrime, "%.5f"), fmtOpt(p.RatioLuminance, "%.4g"), fmtOpt(p.SpectralRMS, "%.4f"))
+		}
+	}
+	t.left[1] = true
+	t.write(w)
+	return nil
+}
+
+// libraryError names the library file in an error of the complement
+// package (which names the entry by number and name).
+func libraryError(err error, file string) error {
+	return fmt.Errorf("%s: %v", file, err)
+}
