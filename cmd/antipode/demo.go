@@ -103,7 +103,12 @@ func runDemo(e *env, args []string) error {
 		if err := os.MkdirAll(out, 0o755); err != nil {
 			return err
 		}
-		for _, name := range []string{"lamps.csv", "filters.csv", "paints.csv"} {
+		entries, err := demoFS.ReadDir("demo")
+		if err != nil {
+			return err
+		}
+		for _, ent := range entries {
+			name := ent.Name()
 			b, err := demoFS.ReadFile("demo/" + name)
 			if err != nil {
 				return err
