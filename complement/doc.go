@@ -13,6 +13,11 @@
 // CheckSubtractive check a pair. ComplementaryWavelength gives λc and the
 // radiant power of the line at λc. Library.Partners ranks a library.
 // Robustness repeats a check under other illuminants and observers.
+// WithinProbability and Conditions.Confidence give the probability that a
+// measured pair is within tolerance. ComplementaryWavelengths tabulates
+// complementary wavelength pairs for a white. ObjectSolid holds the
+// boundary of the object-colour solid (optimal colours, MacAdam limits):
+// Realisable, MaxChroma, MaxLuminance and Boundary.
 //
 // Units: wavelengths in nm; reflectance and transmittance as fractions 0–1;
 // object Y and stack luminous transmittance 0–100; Δu′v′ in the CIE 1976
