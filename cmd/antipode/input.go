@@ -83,24 +83,12 @@ func illuminantFlag(e *env, name string) (colorimetry.Spectrum, string, error) {
 	if err == nil {
 		return s, name, nil
 	}
-	file, col := name, ""
-	if _, statErr := os.Stat(file); statErr != nil {
-		if i := strings.LastIndex(name, ":"); i > 0 {
-			file, col = name[:i], name[i+1:]
-		}
-	}
-	if _, statErr := os.Stat(file); statErr != nil {
+	if _, statErr := os.Stat(fileOf(name)); statErr != nil {
 		return colorimetry.Spectrum{}, "", usagef("--illuminant %s: not a known illuminant (see 'antipode illuminants') and not a file", name)
 	}
-	list, rerr := readSpectra(e, file)
+	list, rerr := spectrumArg(e, name)
 	if rerr != nil {
 		return colorimetry.Spectrum{}, "", rerr
-	}
-	if col != "" {
-		list, rerr = selectColumns(list, col, file)
-		if rerr != nil {
-			return colorimetry.Spectrum{}, "", rerr
-		}
 	}
 	if len(list) != 1 {
 		return colorimetry.Spectrum{}, "", usagef("--illuminant %s: the file holds %d spectra; name one as FILE:NAME", name, len(list))
