@@ -74,7 +74,54 @@ def paints():
     s["ky-plum"] = [0.07 + 0.22 * gauss(n, 420, 50) + 0.30 * logistic(n, 640, 15) for n in NM]
     s["ky-sage"] = [0.12 + 0.20 * gauss(n, 540, 70) for n in NM]
     s["ky-lamp-black"] = [0.045 + 0.002 * (n - 380) / 400 for n in NM]
+    # A touch-up batch of the sage mixed from other pigments: the same colour
+    # as ky-sage under D65 for the CIE 1931 observer, a different spectrum (a
+    # metamer: sage plus a "metameric black" that the D65 weights cannot see).
+    s["ky-sage-touchup"] = metamer(s["ky-sage"])
     return s
+
+
+def read_columns(path):
+    """Reads a CIE reference CSV (header row, wavelength first) into a dict."""
+    with open(path) as f:
+        header = f.readline().strip().split(",")
+        rows = [list(map(float, line.split(","))) for line in f if line.strip()]
+    return {int(r[0]): r[1:] for r in rows}, header[1:]
+
+
+def metamer(base):
+    """Returns base plus a smooth spectrum in the null space of the D65/2° weights.
+
+    The CIE tables are read from ../shared/reference (ISO/CIE 11664-1 and -2) at
+    the 5 nm rows; only the generator needs them, not the program.
+    """
+    ref = os.path.join(os.path.dirname(__file__), "..", "..", "..", "shared", "reference")
+    cmf, _ = read_columns(os.path.join(ref, "cie1931_2deg_1nm.csv"))
+    d65, _ = read_columns(os.path.join(ref, "cie_illuminant_d65_1nm.csv"))
+    w = [[d65[n][0] * cmf[n][k] for n in NM] for k in range(3)]
+    f = [0.07 * math.sin(2 * math.pi * (n - 380) / 140.0) for n in NM]
+    # Project f onto the null space of w: f - w^T (w w^T)^-1 w f.
+    g = [[sum(a * b for a, b in zip(w[i], w[j])) for j in range(3)] for i in range(3)]
+    wf = [sum(a * b for a, b in zip(w[i], f)) for i in range(3)]
+    c = solve3(g, wf)
+    black = [f[k] - sum(c[i] * w[i][k] for i in range(3)) for k in range(len(NM))]
+    return [min(max(b + x, 0.0), 1.0) for b, x in zip(base, black)]
+
+
+def solve3(a, b):
+    """Solves the 3x3 system a x = b by Cramer's rule."""
+    def det(m):
+        return (m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1])
+                - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0])
+                + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]))
+    d = det(a)
+    out = []
+    for i in range(3):
+        m = [row[:] for row in a]
+        for r in range(3):
+            m[r][i] = b[r]
+        out.append(det(m) / d)
+    return out
 
 
 def write_columns(path, spectra, header_note):
