@@ -1331,11 +1331,7 @@ func (m *Dyes) Solve(target colorimetry.Spectrum, set DyeSolveSettings) (Solutio
 
 // dyesJSON is the "model" object of a dyes model file.
 type dyesJSON struct {
-	Grid struct {
-		Start float64 `json:"start_nm"`
-		Step  float64 `json:"step_nm"`
-		N     int     `json:"n"`
-	} `json:"grid"`
+	Grid            gridJSON       `json:"grid"`
 	Unit            string         `json:"unit"`
 	AbsorbanceLimit float64        `json:"absorbance_limit"`
 	Base            []float64      `json:"base_absorbance"`

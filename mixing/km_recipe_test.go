@@ -467,7 +467,7 @@ func TestPigmentsFile(t *testing.T) {
 		{`"white": "white"`, `"white": "chalk"`, "chalk"},
 		{`"specular": "included"`, `"specular": "sideways"`, "sideways"},
 		{`"k2": 0.6`, `"k2": 1.6`, "k2"},
-		{`"count": 31`, `"count": 30`, "30 wavelengths"},
+		{`"n": 31`, `"n": 30`, "30 wavelengths"},
 	} {
 		s := strings.Replace(b.String(), bad.from, bad.to, 1)
 		if s == b.String() {

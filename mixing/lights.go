@@ -574,17 +574,11 @@ func lightCCT(obs *colorimetry.Observer, c colorimetry.XYZ, warns []string) (*co
 
 // lightsJSON is the "model" object of a lights model file.
 type lightsJSON struct {
-	Grid     lightGridJSON      `json:"grid"`
+	Grid     gridJSON           `json:"grid"`
 	Units    string             `json:"units"` // "relative" or "absolute"
 	Channels []lightChannelJSON `json:"channels"`
 	Dark     []float64          `json:"dark"` // null: no dark spectrum
 	Fit      *FitReport         `json:"fit"`
-}
-
-type lightGridJSON struct {
-	Start float64 `json:"start_nm"`
-	Step  float64 `json:"step_nm"`
-	N     int     `json:"n"`
 }
 
 type lightChannelJSON struct {
@@ -595,7 +589,7 @@ type lightChannelJSON struct {
 
 // MarshalJSON writes the model's fields for Save.
 func (m *Lights) MarshalJSON() ([]byte, error) {
-	j := lightsJSON{Grid: lightGridJSON{m.grid.Start, m.grid.Step, m.grid.N}, Units: "relative", Fit: m.report}
+	j := lightsJSON{Grid: gridJSON{m.grid.Start, m.grid.Step, m.grid.N}, Units: "relative", Fit: m.report}
 	if m.absolute {
 		j.Units = "absolute"
 	}

@@ -89,3 +89,11 @@ func Load(r io.Reader) (Model, error) {
 	}
 	return m, nil
 }
+
+// gridJSON is the wavelength grid of a model file: {"start_nm", "step_nm",
+// "n"}, the same in every model family.
+type gridJSON struct {
+	Start float64 `json:"start_nm"`
+	Step  float64 `json:"step_nm"`
+	N     int     `json:"n"`
+}

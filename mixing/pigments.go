@@ -144,12 +144,8 @@ func (p *Pigments) Validate() error {
 // pigmentsJSON is the on-disk form of the "model" object of a pigments
 // model file.
 type pigmentsJSON struct {
-	Wavelengths struct {
-		Start float64 `json:"start_nm"`
-		Step  float64 `json:"step_nm"`
-		Count int     `json:"count"`
-	} `json:"wavelengths"`
-	White     string `json:"white"`
+	Grid      gridJSON `json:"grid"`
+	White     string   `json:"white"`
 	Colorants []struct {
 		Name string    `json:"name"`
 		K    []float64 `json:"k_unit"`
@@ -168,12 +164,12 @@ type pigmentsJSON struct {
 }
 
 // MarshalJSON writes the model's fields (the "model" object of a model
-// file): wavelengths {start_nm, step_nm, count}, white, colorants [{name,
+// file): grid {start_nm, step_nm, n}, white, colorants [{name,
 // k_unit, s_unit}], surface {k1, k2, specular "included"|"excluded",
 // refractive_index, correction}, illuminant, observer, fit.
 func (p *Pigments) MarshalJSON() ([]byte, error) {
 	var j pigmentsJSON
-	j.Wavelengths.Start, j.Wavelengths.Step, j.Wavelengths.Count = p.Grid.Start, p.Grid.Step, p.Grid.N
+	j.Grid.Start, j.Grid.Step, j.Grid.N = p.Grid.Start, p.Grid.Step, p.Grid.N
 	j.White = p.White
 	for _, c := range p.Colorants {
 		j.Colorants = append(j.Colorants, struct {
@@ -203,7 +199,7 @@ func (p *Pigments) UnmarshalJSON(b []byte) error {
 		return err
 	}
 	q := Pigments{
-		Grid:       colorimetry.Grid{Start: j.Wavelengths.Start, Step: j.Wavelengths.Step, N: j.Wavelengths.Count},
+		Grid:       colorimetry.Grid{Start: j.Grid.Start, Step: j.Grid.Step, N: j.Grid.N},
 		White:      j.White,
 		Illuminant: j.Illuminant,
 		Observer:   j.Observer,
