@@ -117,8 +117,9 @@ func (w *Weights) dot(v []float64) XYZ {
 // XYZBatchTo computes the tristimulus values of many spectra sampled on
 // w's grid. values holds the spectra one after another (len N·n, n =
 // Grid().N); dst receives X, Y, Z for each spectrum in turn (len 3·N) and is
-// returned. It allocates nothing. It panics if len(values) is not a
-// multiple of n or dst has the wrong length.
+// returned. It allocates nothing, and each spectrum's sums are taken in the
+// same order as XYZ takes them, so the results are identical. It panics if
+// len(values) is not a multiple of n or dst has the wrong length.
 func (w *Weights) XYZBatchTo(dst, values []float64) []float64 {
 	n := w.grid.N
 	if len(values)%n != 0 {
@@ -132,5 +133,25 @@ func (w *Weights) XYZBatchTo(dst, values []float64) []float64 {
 		values = values[n:]
 		dst[j], dst[j+1], dst[j+2] = c.X, c.Y, c.Z
 	}
+	return dst
+}
+
+// XYZBatchParallelTo is XYZBatchTo with the spectra split into contiguous
+// blocks over workers goroutines (workers ≤ 0 means runtime.GOMAXPROCS). The
+// results are identical to XYZBatchTo's. It allocates only the goroutines'
+// bookkeeping, not per spectrum, and panics as XYZBatchTo does.
+func (w *Weights) XYZBatchParallelTo(dst, values []float64, workers int) []float64 {
+	n := w.grid.N
+	if len(values)%n != 0 {
+		panic("colorimetry: batch length is not a multiple of the grid size")
+	}
+	count := len(values) / n
+	if len(dst) != 3*count {
+		panic("colorimetry: dst length must be 3 per spectrum")
+	}
+	// Below a few thousand spectra the goroutines cost more than they save.
+	parallel(count, workers, 2048, func(lo, hi int) {
+		w.XYZBatchTo(dst[3*lo:3*hi], values[n*lo:n*hi])
+	})
 	return dst
 }
