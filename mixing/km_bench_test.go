@@ -10,9 +10,15 @@ import (
 	"github.com/antipode-color/antipode/colorimetry"
 )
 
-// benchDir is the shared benchmark data (shared/bench/data, beside the
-// repository), read when present.
-var benchDir = filepath.Join("..", "..", "shared", "bench", "data")
+// benchDir is the shared benchmark data: $ANTIPODE_BENCH_DIR/data (where
+// .ci/bench regenerates it) or shared/bench/data beside the repository,
+// read when present.
+var benchDir = func() string {
+	if d := os.Getenv("ANTIPODE_BENCH_DIR"); d != "" {
+		return filepath.Join(d, "data")
+	}
+	return filepath.Join("..", "..", "shared", "bench", "data")
+}()
 
 // benchData is the shared Kubelka–Munk benchmark: the invented colorant
 // set, the 200 targets mixed with the model and their true recipes
@@ -94,4 +100,25 @@ func readBench() (*benchData, error) {
 		d.truth = append(d.truth, t.Concentrations)
 	}
 	return d, nil
+}
+
+// BenchmarkRecipeShared is the numpy/scipy anchor's own job
+// (../shared/bench/km_recipe.py): for each of the 200 targets, the white plus
+// every 3 of the 6 chromatic colorants (20 combinations). It reports
+// ms/target; .ci/bench puts it beside the anchor's median.
+func BenchmarkRecipeShared(b *testing.B) {
+	d := loadBench(b)
+	opt := RecipeOptions{Colorants: 3}
+	b.ReportAllocs()
+	b.ResetTimer()
+	n := 0
+	for range b.N {
+		sol, err := d.model.Recipe(d.targets[n%len(d.targets)], opt)
+		if err != nil {
+			b.Fatal(err)
+		}
+		sinkDE = sol.Recipes[0].DE00
+		n++
+	}
+	b.ReportMetric(float64(b.Elapsed().Microseconds())/1e3/float64(b.N), "ms/target")
 }
