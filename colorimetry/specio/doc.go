@@ -1,7 +1,11 @@
-// Package specio reads and writes spectral data files.
+// Package specio reads and writes spectral data files: spectral CSV in two
+// layouts and CGATS.17 text (ISO 28178). NewReader and ReadFile tell them
+// all apart by content, never by file name: a file whose first line starts
+// with a CGATS identifier, or that has a BEGIN_DATA_FORMAT line, is read as
+// CGATS (see NewCGATSReader, ReadCGATS and WriteCGATS), anything else as
+// CSV.
 //
-// This file set handles spectral CSV, which comes in two layouts. The
-// reader tells them apart by content, never by file name:
+// Spectral CSV comes in two layouts:
 //
 //   - Columns (spreadsheets): the first column holds wavelengths in nm and
 //     every further column one spectrum. An optional header row names the

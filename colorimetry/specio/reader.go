@@ -147,6 +147,8 @@ type Reader struct {
 
 	// columns layout
 	table []Named
+
+	cgats *CGATSReader // set by start when the input is CGATS.17 text (cgats.go)
 }
 
 // record is one non-blank, non-comment line split into fields.
@@ -167,6 +169,9 @@ type rowsHeader struct {
 
 // NewReader returns a Reader that reads from r. The file name is used in
 // error messages; "-" stands for standard input and appears as <stdin>.
+// Under LayoutAuto, input that is CGATS.17 text (a first line starting
+// with "CGATS", or a line starting with BEGIN_DATA_FORMAT, within the first
+// 64 KiB) is read by the rules of NewCGATSReader with NeedSpectra set.
 func NewReader(r io.Reader, file string) *Reader {
 	return &Reader{
 		file: file,
@@ -225,6 +230,9 @@ func (r *Reader) Next() (Named, error) {
 			return Named{}, err
 		}
 	}
+	if r.cgats != nil {
+		return r.cgats.Next()
+	}
 	if r.layout == LayoutRows {
 		return r.nextRow()
 	}
@@ -257,6 +265,9 @@ func (r *Reader) start() error {
 	}
 	if r.MaxLineBytes < 0 || r.MaxSamples < 0 {
 		return errors.New("specio: negative MaxLineBytes or MaxSamples")
+	}
+	if r.Layout == LayoutAuto && r.startCGATS() {
+		return nil
 	}
 	first, err := r.readRecord()
 	if err == io.EOF {
