@@ -44,6 +44,9 @@ antipode computes colour; it does not make anything safe.
   that "passes" here must still be verified with calibrated instruments.
 - Optical radiation: intense blue, UV or IR sources can harm eyes and skin;
   follow the photobiological safety classification of the source.
+- Circadian light: melanopic quantities (melanopic DER, EDI) describe
+  non-visual effects of light on sleep and alertness; they are not a health
+  rating. Follow current health guidance for evening and night lighting.
 
 Defer to local codes, the applicable standards and licensed practice.
 `,
