@@ -70,6 +70,7 @@ func runComplement(e *env, args []string) error {
 	fs.Float64Var(&scale, "scale-white", 0, "lights: the scale `S` of the white (0: the smallest that keeps the complement non-negative)")
 	fs.StringVar(&out, "out", "", "write the complement spectrum to `FILE` (CSV, wavelength column)")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a report")
+	plotPath := fs.String("plot", "", "also draw A and its complement (spectra and the x, y chromaticity diagram) to `FILE` (.svg or .png)")
 	pos, err := parseFlags(commands["complement"], fs, e, args)
 	if err != nil {
 		return err
@@ -166,6 +167,9 @@ func runComplement(e *env, args []string) error {
 			return err
 		}
 		r.Out = &out
+	}
+	if err := plotComplement(*plotPath, pos[0], out, cond, m, r, a, d); err != nil {
+		return err
 	}
 	if asJSON {
 		return writeJSON(e.stdout, r)

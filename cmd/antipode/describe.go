@@ -28,7 +28,15 @@ perfect diffuser has Y = 100. Lights are relative (Y = 100 for the light
 itself) unless --absolute is given, when a spectral radiance in W·sr⁻¹·m⁻²·nm⁻¹
 gives luminance in cd/m² (Km = 683.002 lm/W). Without --scale, reflectance or
 transmittance whose maximum exceeds 1.5 is taken as percent, and the output
-says so.`,
+says so.
+
+Lights also get their lighting quality: the colour rendering indices Ra and
+R1–R14 (CIE 13.3), the colour fidelity index Rf and Rf,i (CIE 224:2017), the
+luminous efficacy of radiation (lm per radiant W, not a fixture's electrical
+efficacy), the scotopic/photopic ratio and the melanopic daylight efficacy
+ratio of CIE S 026 (a measure of the light's non-visual, circadian potency:
+see 'antipode help cautions'). Ra and Rf are null outside the range where the
+CCT is defined, and Ra carries a warning beyond |Duv| = 0.0054.`,
 		example: `  $ antipode describe cmd/antipode/demo/paints.csv --column ky-barn-red,ky-teal
   $ antipode describe cmd/antipode/demo/lamps.csv --as light --json
   $ antipode describe my-gels.csv --as transmittance --illuminant A --observer 1964`,
@@ -67,7 +75,10 @@ type describeRow struct {
 	ColPurity     *float64     `json:"colorimetric_purity"`
 	White         *string      `json:"white"`
 	U             *uncertainty `json:"u"`
-	Warnings      []string     `json:"warnings"`
+	// Lighting quality of lights (quality.go): ra, r, rf, rf_i,
+	// efficacy_lm_per_w, sp_ratio, melanopic_der.
+	lightQualityKeys
+	Warnings []string `json:"warnings"`
 }
 
 // uncertainty holds standard uncertainties of describe's quantities, in
@@ -115,6 +126,7 @@ func runDescribe(e *env, args []string) error {
 	fs.StringVar(&o.cctMethod, "cct-method", "ohno", "lights: CCT method, `ohno` (Ohno 2014) or robertson (Robertson 1968)")
 	fs.StringVar(&o.uncertainty, "uncertainty", "", "standard uncertainty of every sample: a `VALUE` in the file's units, or a spectral FILE (one spectrum for all, or one per name)")
 	fs.BoolVar(&o.json, "json", false, "print JSON instead of a table")
+	plotPath := fs.String("plot", "", "also draw the chromaticities in the x, y chromaticity diagram, to `FILE` (.svg or .png)")
 	files, err := parseFlags(c, fs, e, args)
 	if err != nil {
 		return err
@@ -155,6 +167,9 @@ func runDescribe(e *env, args []string) error {
 			}
 			rows = append(rows, r)
 		}
+	}
+	if err := plotDescribe(*plotPath, files, d, rows); err != nil {
+		return err
 	}
 	if o.json {
 		return writeJSON(e.stdout, rows)
@@ -392,6 +407,7 @@ func (d *describer) describe(in spectrumIn) (describeRow, error) {
 	if o.as == "light" {
 		r.White = &d.wname
 		d.cct(&r, c)
+		lightQuality(&r, s)
 	} else {
 		wxyz := w.White()
 		white, _ = wxyz.XY()
@@ -556,7 +572,7 @@ func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
 	}
 	t := &table{}
 	if light {
-		t.header("name", "X", "Y", "Z", "x", "y", "u′", "v′", "CCT K", "Duv", "λd nm", "pe")
+		t.header("name", "X", "Y", "Z", "x", "y", "u′", "v′", "CCT K", "Duv", "λd nm", "pe", "Ra", "Rf")
 	} else {
 		t.header("name", "X", "Y", "Z", "x", "y", "L*", "a*", "b*", "C*ab", "hab", "λd nm", "pe", "sRGB")
 	}
@@ -570,7 +586,7 @@ func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
 			dom = fmt.Sprintf("−%.1f", *r.Complementary)
 		}
 		if light {
-			row = append(row, f4(r.UPrime), f4(r.VPrime), fmtOpt(r.CCT, "%.0f"), fmtOpt(r.Duv, "%+.4f"), dom, fmtOpt(r.Purity, "%.3f"))
+			row = append(row, f4(r.UPrime), f4(r.VPrime), fmtOpt(r.CCT, "%.0f"), fmtOpt(r.Duv, "%+.4f"), dom, fmtOpt(r.Purity, "%.3f"), fmtOpt(r.Ra, "%.1f"), fmtOpt(r.Rf, "%.1f"))
 		} else {
 			sw := "—"
 			if r.SRGB != nil {
@@ -617,6 +633,9 @@ func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
 		white = *rows[0].White
 	}
 	fmt.Fprintf(w, "\nλd: dominant wavelength relative to %s (negative: complementary wavelength of a purple, CIE 015); pe: excitation purity.\n", white)
+	if light {
+		lightQualityNote(w)
+	}
 	fmt.Fprintf(w, "grid: %s\n", gridsUsed(rows))
 }
 

@@ -86,7 +86,7 @@ CSV (wavelength column, then the spectrum).`,
 
 var solveLightsCommand = &command{
 	name:  "solve",
-	usage: "solve LIGHTS-MODEL.json (--target FILE[:NAME] | --xy x,y | --cct K [--duv d]) [--level Y|target] [--add FILE[:NAME] [--add-level Y]] [--prefer efficacy|reference] [--observer 1931] [--json]",
+	usage: "solve LIGHTS-MODEL.json (--target FILE[:NAME] | --xy x,y | --cct K [--duv d]) [--level Y|target] [--add FILE[:NAME] [--add-level Y]] [--prefer efficacy|reference] [--maximize ra|rf|r9|efficacy|melanopic | --minimize melanopic] [--observer 1931] [--json]",
 	about: `Finds the drive levels that make the rig reach a target chromaticity — given
 as a light's spectrum (--target), as x, y, or as a CCT and Duv on the Planckian
 locus — exactly, by visiting every vertex of the set of reachable mixes.
@@ -111,11 +111,17 @@ the chromaticity reached and its Δu′v′ to the target, ΔE00 (at the target'
 luminance, or at the mix's own for a chromaticity target), Y, CCT and Duv,
 and the efficacy (lm/W of the channels' radiant power: a ratio, so it holds
 for relative data too; not a fixture's electrical efficacy). A target the
-rig cannot reach gives the nearest mix, marked not reachable.`,
+rig cannot reach gives the nearest mix, marked not reachable.
+
+` + lightsGoalHelp + `
+
+Every recipe also gives Ra and R9 (CIE 13.3), Rf (CIE 224:2017) and the
+melanopic DER (CIE S 026) of the whole light, dark and added light included.`,
 	example: `  $ antipode fit lights kestrel/rig_ramps.csv --out rig.json
   $ antipode solve rig.json --cct 4000 --duv 0
   $ antipode solve rig.json --cct 4000 --add kestrel/rig_filtered.csv
-  $ antipode solve rig.json --xy 0.31,0.33 --level 40 --prefer reference --json`,
+  $ antipode solve rig.json --xy 0.31,0.33 --level 40 --prefer reference --json
+  $ antipode solve rig.json --cct 3200 --maximize ra`,
 }
 
 // lightsModel asserts the model's type.
@@ -442,7 +448,7 @@ func solveLights(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return err
 	}
-	var target, xyArg, level, addArg, prefer, obsName string
+	var target, xyArg, level, addArg, prefer, obsName, maximize, minimize string
 	var cct, duv, addLevel float64
 	var asJSON bool
 	fs := flag.NewFlagSet("solve lights", flag.ContinueOnError)
@@ -456,6 +462,8 @@ func solveLights(e *env, mm mixing.Model, args []string) error {
 	fs.StringVar(&prefer, "prefer", "efficacy", "with more than three channels, rank first the mix of highest `efficacy` or the one closest to the reference spectrum (reference)")
 	fs.StringVar(&obsName, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
 	fs.BoolVar(&asJSON, "json", false, "print the solve JSON ({\"recipes\": […]}) instead of text")
+	fs.StringVar(&maximize, "maximize", "", "rank first the mix at the target with the highest `QUALITY`: ra, rf, r9, efficacy or melanopic")
+	fs.StringVar(&minimize, "minimize", "", "rank first the mix at the target with the lowest `QUALITY`: melanopic")
 	pos, err := parseFlags(solveLightsCommand, fs, e, args)
 	if err != nil {
 		return err
@@ -575,7 +583,11 @@ func solveLights(e *env, mm mixing.Model, args []string) error {
 		opt.Add = s
 		addNote = fmt.Sprintf("%s (%s), Y %.4g on the model's scale", in.name, in.file, c.Y*scale)
 	}
-	sol, err := m.Solve(t, opt)
+	goal, err := lightsGoal(maximize, minimize)
+	if err != nil {
+		return err
+	}
+	sol, err := m.SolveQuality(t, goal, opt)
 	if err != nil {
 		return err
 	}
@@ -655,6 +667,10 @@ func printLightsSolution(w io.Writer, m *mixing.Lights, obs *colorimetry.Observe
 			return num(r.Extra["duv"], "%+.4f")
 		}},
 		{"efficacy lm/W", func(r mixing.Recipe) string { return num(r.Extra["efficacy_lm_per_w"], "%.0f") }},
+		{"Ra", func(r mixing.Recipe) string { return num(r.Extra["ra"], "%.1f") }},
+		{"R9", func(r mixing.Recipe) string { return num(r.Extra["r9"], "%.1f") }},
+		{"Rf", func(r mixing.Recipe) string { return num(r.Extra["rf"], "%.1f") }},
+		{"melanopic DER", func(r mixing.Recipe) string { return num(r.Extra["melanopic_der"], "%.3f") }},
 		{"to reference", func(r mixing.Recipe) string { return num(r.Extra["reference_distance"], "%.3f") }},
 	} {
 		row := []string{line.label}
@@ -668,6 +684,7 @@ func printLightsSolution(w io.Writer, m *mixing.Lights, obs *colorimetry.Observe
 		fmt.Fprintf(w, "\nto reference: relative RMS spectral distance of the whole light to %s at the same Y.\n", ref)
 	}
 	fmt.Fprintln(w, "efficacy: luminous efficacy of radiation of the channels' light (lm per radiant W; not electrical).")
+	printLightsTradeOff(w, sol)
 	seen := map[string]bool{}
 	var notes []string
 	for k, r := range sol.Recipes {

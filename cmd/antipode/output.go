@@ -19,6 +19,12 @@ func writeFileAtomic(path string, data []byte) error {
 		return fmt.Errorf("%s: %w", path, err)
 	}
 	tmp := f.Name()
+	// CreateTemp makes the file 0600; an output is an ordinary file.
+	if err := f.Chmod(0o644); err != nil {
+		f.Close()
+		os.Remove(tmp)
+		return fmt.Errorf("%s: %w", path, err)
+	}
 	if _, err := f.Write(data); err != nil {
 		f.Close()
 		os.Remove(tmp)

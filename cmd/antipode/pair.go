@@ -178,6 +178,7 @@ func runPair(e *env, args []string) error {
 	fs.StringVar(&unc, "uncertainty", "", "standard uncertainty of every sample, a `VALUE` in the files' units (additive: gives the confidence)")
 	fs.BoolVar(&strict, "strict", false, "exit with status 1 when the verdict is none")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a report")
+	plotPath := fs.String("plot", "", "also draw the pair (spectra and the x, y chromaticity diagram) to `FILE` (.svg or .png)")
 	pos, err := parseFlags(commands["pair"], fs, e, args)
 	if err != nil {
 		return err
@@ -271,6 +272,9 @@ func runPair(e *env, args []string) error {
 		for _, o := range out {
 			r.Robustness = append(r.Robustness, robustRow{Illuminant: o.Illuminant, Observer: o.Observer, Verdict: o.Verdict, DeltaUVPrime: o.DeltaUVPrime, StackY: o.StackY})
 		}
+	}
+	if err := plotPair(*plotPath, pos, cond, m, r, a, b); err != nil {
+		return err
 	}
 	if asJSON {
 		if err := writeJSON(e.stdout, r); err != nil {
