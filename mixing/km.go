@@ -280,14 +280,14 @@ func HidingThickness(k, s, rWhite, cr float64) (float64, error) {
 		return 0, fmt.Errorf("contrast ratio %g: want 0 < cr < 1", cr)
 	}
 	if !(k >= 0 && s >= 0) || k+s == 0 || math.IsInf(k, 0) || math.IsInf(s, 0) {
-		return 0, fmt.Errorf("K = %g, S = %g: a film needs finite K, S ≥ 0, not both 0", k, s)
+		return 0, fmt.Errorf("film with K = %g, S = %g: K and S must be finite and ≥ 0, not both 0", k, s)
 	}
 	f := func(x float64) float64 { return ContrastRatio(k, s, x, rWhite) - cr }
 	lo, hi := 0.0, 1/(k+s)
 	for f(hi) < 0 {
 		lo, hi = hi, 2*hi
 		if hi > 1e12/(k+s) {
-			return 0, fmt.Errorf("K = %g, S = %g over a backing of %g: contrast ratio %g is never reached", k, s, rWhite, cr)
+			return 0, fmt.Errorf("film with K = %g, S = %g over a backing of %g: contrast ratio %g is never reached", k, s, rWhite, cr)
 		}
 	}
 	for range 200 {
