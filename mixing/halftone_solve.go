@@ -502,12 +502,3 @@ func (pr *htProblem) recipe(x []float64, de float64, choice string) Recipe {
 	}
 	return r
 }
-
-// htValues returns the amounts' values in order.
-func htValues(a []Amount) []float64 {
-	v := make([]float64, len(a))
-	for i, x := range a {
-		v[i] = x.Value
-	}
-	return v
-}

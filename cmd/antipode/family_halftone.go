@@ -296,10 +296,7 @@ func printHalftoneFit(w io.Writer, m *mixing.Halftone, samples []mixing.Halftone
 		byName[s.Name] = s
 	}
 	var st table
-	hdr := []string{"patch"}
-	for _, ink := range inks {
-		hdr = append(hdr, ink)
-	}
+	hdr := append([]string{"patch"}, inks...)
 	st.left = map[int]bool{len(hdr): true}
 	st.header(append(hdr, "set", "RMS", "max", "ΔE00")...)
 	for _, sf := range r.Samples {
