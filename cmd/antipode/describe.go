@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -151,30 +152,131 @@ func runDescribe(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	var rows []describeRow
+	out := newDescribeOut(e.stdout, o, *plotPath != "")
 	for _, f := range files {
-		list, err := readSpectra(e, f)
-		if err != nil {
-			return err
-		}
-		if list, err = selectColumns(list, o.columns, f); err != nil {
-			return err
-		}
-		for _, in := range list {
+		err := eachSpectrum(e, f, o.columns, func(in spectrumIn) error {
 			r, err := d.describe(in)
 			if err != nil {
 				return err
 			}
-			rows = append(rows, r)
+			return out.add(r)
+		})
+		if err != nil {
+			return err
 		}
 	}
-	if err := plotDescribe(*plotPath, files, d, rows); err != nil {
+	if err := out.finish(); err != nil {
 		return err
 	}
-	if o.json {
-		return writeJSON(e.stdout, rows)
+	return plotDescribe(*plotPath, files, d, out.kept)
+}
+
+// describeOut prints describe's rows as they come: JSON elements one by
+// one, and tables in blocks of describeBlock rows, so that a file of
+// millions of spectra needs no more memory than one block. A table of up
+// to describeBlock rows is laid out as one.
+type describeOut struct {
+	w     io.Writer
+	o     describeOpts
+	keep  bool          // keep every row (for --plot)
+	kept  []describeRow // the rows, when keep
+	block []describeRow
+	n     int // rows written so far
+	width []int
+	notes []string // warnings, up to maxNotes
+	extra int      // warnings beyond maxNotes
+	grids []string
+	white *string
+}
+
+const (
+	describeBlock = 1000
+	maxNotes      = 200
+)
+
+func newDescribeOut(w io.Writer, o describeOpts, keep bool) *describeOut {
+	return &describeOut{w: w, o: o, keep: keep}
+}
+
+func (p *describeOut) add(r describeRow) error {
+	if p.keep {
+		p.kept = append(p.kept, r)
 	}
-	printDescribe(e.stdout, rows, o)
+	if !slices.Contains(p.grids, r.Grid) {
+		p.grids = append(p.grids, r.Grid)
+	}
+	if p.white == nil {
+		p.white = r.White
+	}
+	if p.o.json {
+		b, err := json.MarshalIndent(r, "  ", "  ")
+		if err != nil {
+			return err
+		}
+		sep := ",\n  "
+		if p.n == 0 {
+			sep = "[\n  "
+		}
+		p.n++
+		_, err = fmt.Fprintf(p.w, "%s%s", sep, b)
+		return err
+	}
+	for _, wn := range r.Warnings {
+		if len(p.notes) < maxNotes {
+			p.notes = append(p.notes, fmt.Sprintf("%s: %s", r.Name, wn))
+		} else {
+			p.extra++
+		}
+	}
+	p.block = append(p.block, r)
+	if len(p.block) == describeBlock {
+		p.flush()
+	}
+	return nil
+}
+
+func (p *describeOut) flush() {
+	if len(p.block) == 0 {
+		return
+	}
+	if p.n == 0 {
+		printDescribeHeader(p.w, p.block[0], p.o)
+	}
+	p.width = printDescribeRows(p.w, p.block, p.o, p.n == 0, p.width)
+	p.n += len(p.block)
+	p.block = p.block[:0]
+}
+
+func (p *describeOut) finish() error {
+	if p.o.json {
+		if p.n == 0 {
+			_, err := fmt.Fprintln(p.w, "[]")
+			return err
+		}
+		_, err := fmt.Fprintln(p.w, "\n]")
+		return err
+	}
+	p.flush()
+	if p.n == 0 {
+		fmt.Fprintln(p.w, "no spectra")
+		return nil
+	}
+	if len(p.notes) > 0 {
+		fmt.Fprintf(p.w, "\nwarnings:\n  %s\n", strings.Join(p.notes, "\n  "))
+		if p.extra > 0 {
+			fmt.Fprintf(p.w, "  … and %d more\n", p.extra)
+		}
+	}
+	light := p.o.as == "light"
+	white := "the illuminant"
+	if light && p.white != nil {
+		white = *p.white
+	}
+	fmt.Fprintf(p.w, "\nλd: dominant wavelength relative to %s (negative: complementary wavelength of a purple, CIE 015); pe: excitation purity.\n", white)
+	if light {
+		lightQualityNote(p.w)
+	}
+	fmt.Fprintf(p.w, "grid: %s\n", strings.Join(p.grids, "; "))
 	return nil
 }
 
@@ -550,27 +652,36 @@ func writeJSON(w io.Writer, v any) error {
 	return enc.Encode(v)
 }
 
+// printDescribe prints rows as one table with its header and notes.
 func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
-	if len(rows) == 0 {
-		fmt.Fprintln(w, "no spectra")
-		return
+	out := newDescribeOut(w, o, false)
+	for _, r := range rows {
+		// Errors come only from JSON encoding, which is not used here.
+		_ = out.add(r)
 	}
-	light := o.as == "light"
+	_ = out.finish()
+}
+
+// printDescribeHeader prints the line that says what the table shows.
+func printDescribeHeader(w io.Writer, first describeRow, o describeOpts) {
 	what := o.as
 	switch {
-	case light && o.absolute:
+	case o.as == "light" && o.absolute:
 		what += ", absolute (Km = 683.002 lm/W)"
-	case light:
+	case o.as == "light":
 		what += ", relative: Y = 100 for each light"
 	default:
-		what += fmt.Sprintf(" under %s, perfect diffuser Y = 100", *rows[0].Illum)
+		what += fmt.Sprintf(" under %s, perfect diffuser Y = 100", *first.Illum)
 	}
-	fmt.Fprintf(w, "%s; %s observer\n\n", what, rows[0].Observer)
-	nameW := 4
-	for _, r := range rows {
-		nameW = max(nameW, len([]rune(r.Name)))
-	}
-	t := &table{}
+	fmt.Fprintf(w, "%s; %s observer\n\n", what, first.Observer)
+}
+
+// printDescribeRows prints one block of rows (with the column header when
+// header is true), its columns at least as wide as width, and returns the
+// widths used so later blocks line up.
+func printDescribeRows(w io.Writer, rows []describeRow, o describeOpts, header bool, width []int) []int {
+	light := o.as == "light"
+	t := &table{minWidth: width, noHeader: !header}
 	if light {
 		t.header("name", "X", "Y", "Z", "x", "y", "u′", "v′", "CCT K", "Duv", "λd nm", "pe", "Ra", "Rf")
 	} else {
@@ -596,7 +707,7 @@ func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
 		}
 		t.row(row...)
 	}
-	t.write(w)
+	width = t.write(w)
 	if rows[0].U != nil {
 		fmt.Fprintf(w, "\nstandard uncertainties (k = 1), from uncorrelated per-sample uncertainties %s:\n", o.uncertainty)
 		u := &table{}
@@ -619,36 +730,7 @@ func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
 		}
 		u.write(w)
 	}
-	var notes []string
-	for _, r := range rows {
-		for _, wn := range r.Warnings {
-			notes = append(notes, fmt.Sprintf("%s: %s", r.Name, wn))
-		}
-	}
-	if len(notes) > 0 {
-		fmt.Fprintf(w, "\nwarnings:\n  %s\n", strings.Join(notes, "\n  "))
-	}
-	white := "the illuminant"
-	if light && rows[0].White != nil {
-		white = *rows[0].White
-	}
-	fmt.Fprintf(w, "\nλd: dominant wavelength relative to %s (negative: complementary wavelength of a purple, CIE 015); pe: excitation purity.\n", white)
-	if light {
-		lightQualityNote(w)
-	}
-	fmt.Fprintf(w, "grid: %s\n", gridsUsed(rows))
-}
-
-func gridsUsed(rows []describeRow) string {
-	seen := map[string]bool{}
-	var out []string
-	for _, r := range rows {
-		if !seen[r.Grid] {
-			seen[r.Grid] = true
-			out = append(out, r.Grid)
-		}
-	}
-	return strings.Join(out, "; ")
+	return width
 }
 
 // f4 formats an optional number with 4 decimals, "—" when absent.

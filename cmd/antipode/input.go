@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"io"
 	"os"
 	"strings"
 
@@ -167,3 +168,56 @@ func fileOf(arg string) string {
 
 // joinLines joins warnings for the indented warnings block.
 func joinLines(s []string) string { return strings.Join(s, "\n  ") }
+
+// eachSpectrum calls f for every spectrum of path ("-" is standard input) as
+// the file is read, so a file of millions of spectra in the rows layout or
+// CGATS is processed in constant memory. With names (comma-separated) only
+// those spectra are passed on, in file order; a name that never appears is
+// an error naming what the file had (up to a few names).
+func eachSpectrum(e *env, path, names string, f func(spectrumIn) error) error {
+	var src io.Reader = e.stdin
+	if path != "-" {
+		fh, err := os.Open(path)
+		if err != nil {
+			return err
+		}
+		defer fh.Close()
+		src = fh
+	}
+	want := map[string]bool{}
+	if names != "" {
+		for _, n := range strings.Split(names, ",") {
+			want[strings.ToLower(strings.TrimSpace(n))] = false
+		}
+	}
+	var seen []string
+	r := specio.NewReader(src, path)
+	for {
+		n, err := r.Next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return err
+		}
+		if len(want) > 0 {
+			key := strings.ToLower(n.Name)
+			if _, ok := want[key]; !ok {
+				if len(seen) < 12 {
+					seen = append(seen, n.Name)
+				}
+				continue
+			}
+			want[key] = true
+		}
+		if err := f(spectrumIn{name: n.Name, file: path, line: n.Line, s: n.Spectrum}); err != nil {
+			return err
+		}
+	}
+	for name, found := range want {
+		if !found {
+			return fmt.Errorf("%s: no spectrum named %q (the file has: %s)", path, name, strings.Join(seen, ", "))
+		}
+	}
+	return nil
+}

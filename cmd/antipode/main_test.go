@@ -317,3 +317,43 @@ func TestCompareJSON(t *testing.T) {
 		}
 	}
 }
+
+// TestDescribeStreams checks describe on more rows than one printing block:
+// the JSON is one valid array of every row, the table has one header and
+// a line per spectrum.
+func TestDescribeStreams(t *testing.T) {
+	t.Parallel()
+	var b strings.Builder
+	b.WriteString("name,400,450,500,550,600,650,700\n")
+	n := describeBlock*2 + 17
+	for i := range n {
+		fmt.Fprintf(&b, "swatch-%d,0.1,0.2,0.3,0.4,0.5,0.6,%.4f\n", i, 0.5+float64(i%100)/1000)
+	}
+	code, out, errs := runCLI(t, b.String(), "describe", "-", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var rows []map[string]any
+	if err := json.Unmarshal([]byte(out), &rows); err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != n || rows[n-1]["name"] != fmt.Sprintf("swatch-%d", n-1) {
+		t.Fatalf("%d rows, last %v", len(rows), rows[len(rows)-1]["name"])
+	}
+	code, out, errs = runCLI(t, b.String(), "describe", "-")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	headers, data := 0, 0
+	for _, line := range strings.Split(out, "\n") {
+		switch {
+		case strings.HasPrefix(line, "name "):
+			headers++
+		case strings.HasPrefix(line, "swatch-"):
+			data++
+		}
+	}
+	if headers != 1 || data != n {
+		t.Errorf("table: %d header lines, %d rows; want 1 and %d", headers, data, n)
+	}
+}

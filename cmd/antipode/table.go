@@ -13,13 +13,19 @@ type table struct {
 	rows [][]string
 	// left marks further columns to align left (notes, names).
 	left map[int]bool
+	// minWidth holds columns' smallest widths, so that blocks of one long
+	// table printed one after another line up.
+	minWidth []int
+	// noHeader leaves out the first row (the header) when printing.
+	noHeader bool
 }
 
 func (t *table) header(cells ...string) { t.rows = append(t.rows, cells) }
 func (t *table) row(cells ...string)    { t.rows = append(t.rows, cells) }
 
-func (t *table) write(w io.Writer) {
-	var width []int
+// write prints the table and returns the column widths it used.
+func (t *table) write(w io.Writer) []int {
+	width := append([]int(nil), t.minWidth...)
 	for _, r := range t.rows {
 		for i, c := range r {
 			if i >= len(width) {
@@ -28,7 +34,10 @@ func (t *table) write(w io.Writer) {
 			width[i] = max(width[i], utf8.RuneCountInString(c))
 		}
 	}
-	for _, r := range t.rows {
+	for k, r := range t.rows {
+		if k == 0 && t.noHeader {
+			continue
+		}
 		var b strings.Builder
 		for i, c := range r {
 			pad := strings.Repeat(" ", width[i]-utf8.RuneCountInString(c))
@@ -43,4 +52,5 @@ func (t *table) write(w io.Writer) {
 		}
 		fmt.Fprintln(w, strings.TrimRight(b.String(), " "))
 	}
+	return width
 }
