@@ -22,6 +22,9 @@ const (
 type env struct {
 	stdin          io.Reader
 	stdout, stderr io.Writer
+	// modelPath is the model file of mix and solve, which outputs must not
+	// replace.
+	modelPath string
 }
 
 // command is one subcommand of the tool.

@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/antipode-color/antipode/colorimetry"
 	"github.com/antipode-color/antipode/colorimetry/specio"
 	"github.com/antipode-color/antipode/mixing"
 )
@@ -378,6 +379,7 @@ func solveDyes(e *env, mm mixing.Model, args []string) error {
 	fs.Float64Var(&ell, "path-length", 1, "path length or film thickness `L` of the recipe, relative to the calibration's")
 	fs.Float64Var(&tol, "tolerance", mixing.DefaultDyeTolerance, "`ΔE00` up to which the target counts as reached")
 	fs.StringVar(&scale, "scale", "", "scale of the target's values: `fraction` (0–1) or percent; default: percent when the maximum exceeds 1.5")
+	plotPath := plotFlag(fs)
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
 	pos, err := parseFlags(solveDyesCommand, fs, e, args)
 	if err != nil {
@@ -430,6 +432,14 @@ func solveDyes(e *env, mm mixing.Model, args []string) error {
 			return fmt.Errorf("%s: %v; best concentrations found: %s", list[0].place(), err, dyeAmountList(m.Names(), ce.Best))
 		}
 		return fmt.Errorf("%s: %w", list[0].place(), err)
+	}
+	err = plotObjectSolve(e, *plotPath, "transmittance", illum, obs, &namedSpectrum{name: list[0].name, s: ts}, sol,
+		func(a []mixing.Amount) (colorimetry.Spectrum, error) {
+			s, _, err := m.Transmittance(a, ell)
+			return s, err
+		}, fileOf(target))
+	if err != nil {
+		return err
 	}
 	for i := range sol.Recipes {
 		sol.Recipes[i].Warnings = append(append([]string(nil), twarn...), sol.Recipes[i].Warnings...)

@@ -478,6 +478,7 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
 	fs.Float64Var(&tol, "tolerance", mixing.DefaultHalftoneTolerance, "`ΔE00` up to which the target counts as reached")
 	fs.StringVar(&scale, "scale", "", "scale of the target's values: `fraction` (0–1) or percent; default: percent when the maximum exceeds 1.5")
+	plotPath := plotFlag(fs)
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
 	pos, err := parseFlags(solveHalftoneCommand, fs, e, args)
 	if err != nil {
@@ -522,6 +523,7 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 	var what string
 	var warns []string
 	var labT colorimetry.Lab
+	var tgt *namedSpectrum
 	if labArg != "" {
 		if labT, err = parseLab(labArg); err != nil {
 			return err
@@ -535,6 +537,7 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 		}
 		warns = w
 		what = in.place()
+		tgt = &namedSpectrum{name: in.name, s: ts}
 		if labT, err = set.Scorer.ObjectLab(ts); err != nil {
 			return fmt.Errorf("%s: %w", what, err)
 		}
@@ -554,6 +557,9 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 	}
 	for i := range sol.Recipes {
 		sol.Recipes[i].Warnings = append(append([]string(nil), warns...), sol.Recipes[i].Warnings...)
+	}
+	if err := plotObjectSolve(e, *plotPath, "reflectance", illum, obs, tgt, sol, m.Reflectance, fileOf(target)); err != nil {
+		return err
 	}
 	if asJSON {
 		return writeSolution(e, sol)

@@ -671,6 +671,7 @@ func solvePigments(e *env, mm mixing.Model, args []string) error {
 	fs.StringVar(&lab, "lab", "", "target CIELAB `L,a,b` under --illuminant, instead of --target")
 	rf.common(fs)
 	rf.search(fs)
+	plotPath := plotFlag(fs)
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
 	pos, err := parseFlags(solvePigmentsCommand, fs, e, args)
 	if err != nil {
@@ -693,6 +694,7 @@ func solvePigments(e *env, mm mixing.Model, args []string) error {
 	var sol mixing.Solution
 	var what string
 	var warns []string
+	var tgt *namedSpectrum
 	if target != "" {
 		in, ts, w, err := oneSpectrum(e, "target", target, rf.scale)
 		if err != nil {
@@ -700,6 +702,7 @@ func solvePigments(e *env, mm mixing.Model, args []string) error {
 		}
 		warns = w
 		what = in.place()
+		tgt = &namedSpectrum{name: in.name, s: ts}
 		sol, err = p.Recipe(ts, opt)
 		if err != nil {
 			return solveError(what, err)
@@ -716,6 +719,9 @@ func solvePigments(e *env, mm mixing.Model, args []string) error {
 	}
 	for i := range sol.Recipes {
 		sol.Recipes[i].Warnings = append(append([]string(nil), warns...), sol.Recipes[i].Warnings...)
+	}
+	if err := plotObjectSolve(e, *plotPath, "reflectance", rf.illum, rf.obs, tgt, sol, p.Reflectance, fileOf(target)); err != nil {
+		return err
 	}
 	if asJSON {
 		return writeSolution(e, sol)

@@ -136,6 +136,7 @@ func runMix(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	e.modelPath = path
 	f := families[m.Kind()]
 	if f == nil || f.mix == nil {
 		return fmt.Errorf("%s: the %s model has no forward command yet", path, m.Kind())
@@ -155,6 +156,7 @@ func runSolve(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	e.modelPath = path
 	f := families[m.Kind()]
 	if f == nil || f.solve == nil {
 		return fmt.Errorf("%s: the %s model has no solve command yet", path, m.Kind())
