@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"time"
 
 	"github.com/antipode-color/antipode/colorimetry/specio"
 )
@@ -51,6 +52,10 @@ var demoSteps = []demoStep{
 		[]string{"describe", "lamps.csv", "--as", "light"}},
 	{"The gel filters in front of the shop's tungsten lamp (its own spectrum as illuminant).",
 		[]string{"describe", "filters.csv", "--as", "transmittance", "--illuminant", "lamps.csv:tungsten-3200"}},
+	{"Their chromaticities, with the two washes that should add to white and the rig's gamut.",
+		[]string{"plot", "diagram", "lamps.csv", "--as", "light", "--pair", "wash-amber,wash-cyan", "--out", "lamps-diagram.png"}},
+	{"The gels' transmittance spectra.",
+		[]string{"plot", "spectra", "filters.csv", "--as", "transmittance", "--out", "filters-spectra.svg"}},
 	{"Two gels stacked: do they cancel to black? (subtractive complements)",
 		[]string{"pair", "filters.csv:gel-deep-amber", "filters.csv:gel-cyan", "--mode", "subtractive"}},
 	{"Two LED washes added: do they make the D65 white? And under other whites and observers? (additive)",
@@ -63,12 +68,14 @@ var demoSteps = []demoStep{
 		[]string{"solve", "rig.json", "--cct", "4000", "--add", "rig_filtered.csv"}},
 	{"The scenic paints under D65 (CIE 1964 10° observer, as paint matching uses).",
 		[]string{"describe", "paints.csv", "--observer", "1964"}},
+	{"The paints as sRGB swatches (out-of-gamut ones marked).",
+		[]string{"plot", "swatches", "paints.csv", "--out", "paints-swatches.png"}},
 	{"The touch-up batch of the sage matches under D65 — but under tungsten (A) and a three-band lamp (F11)?",
 		[]string{"compare", "paints.csv:ky-sage", "paints.csv:ky-sage-touchup", "--also", "A,F11"}},
 	{"Calibrate the scenic paints (Kubelka–Munk) from their tint ladders and drawdowns.",
 		[]string{"fit", "pigments", "paint_ladders.csv", "--out", "paints.json"}},
 	{"Solve a recipe for the set designer's swatch, checked for metamerism under A and F11.",
-		[]string{"solve", "paints.json", "--target", "paint_target.csv", "--also", "A,F11"}},
+		[]string{"solve", "paints.json", "--target", "paint_target.csv", "--also", "A,F11", "--plot", "paint-recipes.png"}},
 	{"Which colorant neutralises the brick red to a grey, and in what ratio?",
 		[]string{"neutralize", "paints.json", "--paint", "ky-brick"}},
 	{"Calibrate the shop's dyes from their dilution series (Beer–Lambert).",
@@ -152,12 +159,37 @@ func runDemo(e *env, args []string) error {
 		}
 		n++
 		fmt.Fprintf(w, "\n%d. %s\n   $ antipode %s\n\n", n, st.title, strings.Join(st.args, " "))
-		if err := cmd.run(e, demoArgs(st.args, dir, files)); err != nil {
+		stop := progress(e, n)
+		err := cmd.run(e, demoArgs(st.args, dir, files))
+		stop()
+		if err != nil {
 			return fmt.Errorf("demo step %d (%s): %w", n, strings.Join(st.args, " "), err)
 		}
 	}
 	fmt.Fprintf(w, "\nThe demo files and everything the steps wrote are in %s.\n", dir)
 	return nil
+}
+
+// progress reports on standard error, once a second, that demo step n is
+// still running; the returned function stops it.
+func progress(e *env, n int) func() {
+	done := make(chan struct{})
+	finished := make(chan struct{})
+	start := time.Now()
+	go func() {
+		defer close(finished)
+		t := time.NewTicker(time.Second)
+		defer t.Stop()
+		for {
+			select {
+			case <-done:
+				return
+			case <-t.C:
+				fmt.Fprintf(e.stderr, "   … step %d still running (%.0f s)\n", n, time.Since(start).Seconds())
+			}
+		}
+	}()
+	return func() { close(done); <-finished }
 }
 
 // demoArgs puts the demo's file arguments (FILE or FILE:NAME, and the
@@ -167,7 +199,7 @@ func demoArgs(args []string, dir string, files map[string]bool) []string {
 	for i, a := range args {
 		out[i] = a
 		file, _, _ := strings.Cut(a, ":")
-		if files[file] || strings.HasSuffix(file, ".json") || (i > 0 && args[i-1] == "--out") {
+		if files[file] || strings.HasSuffix(file, ".json") || (i > 0 && (args[i-1] == "--out" || args[i-1] == "--plot")) {
 			out[i] = filepath.Join(dir, a)
 		}
 	}
