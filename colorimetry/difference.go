@@ -132,20 +132,54 @@ var (
 // the four cosines of T taken from one sine and cosine of the mean hue by
 // the multiple-angle identities and seventh powers by multiplication.
 func DeltaE2000K(a, b Lab, kL, kC, kH float64) float64 {
-	// Sharma et al. (2005), step 1: a′, C′, h′.
-	cab := (math.Hypot(a.A, a.B) + math.Hypot(b.A, b.B)) / 2
+	// Sharma et al. (2005), step 1: a′, C′. Lab values are far from the
+	// range where x² overflows, so plain square roots serve for hypot.
+	cab := (math.Sqrt(a.A*a.A+a.B*a.B) + math.Sqrt(b.A*b.A+b.B*b.B)) / 2
 	c7 := pow7(cab)
 	g := 0.5 * (1 - math.Sqrt(c7/(c7+pow25to7)))
 	a1p := (1 + g) * a.A
 	a2p := (1 + g) * b.A
-	c1p := math.Hypot(a1p, a.B)
-	c2p := math.Hypot(a2p, b.B)
+	c1p := math.Sqrt(a1p*a1p + a.B*a.B)
+	c2p := math.Sqrt(a2p*a2p + b.B*b.B)
+	prod := c1p * c2p
+
+	// Steps 2 and 3 work with the hue directions as unit vectors: the mean
+	// hue h̄′ of CIEDE2000 is the bisector of the shorter arc between h′₁
+	// and h′₂, so cos h̄′ and sin h̄′ come from u₁ + u₂, and
+	// sin(Δh′/2) = ±|u₂ − u₁|/2 with the sign of Δh′ (that of u₁ × u₂).
+	// This saves an arctangent and two sines against the angle form; the
+	// angle form (deltaE2000Angles) handles a zero chroma and hues within
+	// about 0.01° of opposite, where the bisector is ill-defined and
+	// Sharma's 180° rules decide.
+	if prod == 0 {
+		return deltaE2000Angles(a, b, a1p, a2p, c1p, c2p, kL, kC, kH)
+	}
+	u1x, u1y := a1p/c1p, a.B/c1p
+	u2x, u2y := a2p/c2p, b.B/c2p
+	bx, by := u1x+u2x, u1y+u2y
+	nb := math.Sqrt(bx*bx + by*by)
+	if nb < 2e-4 {
+		return deltaE2000Angles(a, b, a1p, a2p, c1p, c2p, kL, kC, kH)
+	}
+	cs, sn := bx/nb, by/nb
+	dx, dy := u2x-u1x, u2y-u1y
+	half := math.Sqrt(dx*dx+dy*dy) / 2 // |sin(Δh′/2)|
+	if u1x*u2y-u1y*u2x < 0 {
+		half = -half
+	}
+	dHp := 2 * math.Sqrt(prod) * half
+	hbar := math.Atan2(sn, cs) * (180 / math.Pi)
+	if hbar < 0 {
+		hbar += 360
+	}
+	return deltaE2000Weights(a.L, b.L, c1p, c2p, dHp, hbar, sn, cs, kL, kC, kH)
+}
+
+// deltaE2000Angles is CIEDE2000 from step 2 on in the angle form of
+// Sharma et al. (2005), for the cases DeltaE2000K leaves to it.
+func deltaE2000Angles(a, b Lab, a1p, a2p, c1p, c2p, kL, kC, kH float64) float64 {
 	h1p := hueDeg(a.B, a1p)
 	h2p := hueDeg(b.B, a2p)
-
-	// Step 2: ΔL′, ΔC′, Δh′, ΔH′, and the mean hue h̄′ of step 3.
-	dLp := b.L - a.L
-	dCp := c2p - c1p
 	var dhp, hbar float64
 	prod := c1p * c2p
 	if prod == 0 {
@@ -172,11 +206,17 @@ func DeltaE2000K(a, b Lab, kL, kC, kH float64) float64 {
 		}
 	}
 	dHp := 2 * math.Sqrt(prod) * math.Sin(dhp*(math.Pi/360))
-
-	// Step 3: the weighting functions and ΔE00.
-	lbar := (a.L + b.L) / 2
-	cbar := (c1p + c2p) / 2
 	sn, cs := math.Sincos(hbar * (math.Pi / 180))
+	return deltaE2000Weights(a.L, b.L, c1p, c2p, dHp, hbar, sn, cs, kL, kC, kH)
+}
+
+// deltaE2000Weights is step 3 of CIEDE2000: the weighting functions and
+// ΔE00, given the mean hue h̄′ in degrees with its sine and cosine.
+func deltaE2000Weights(l1, l2, c1p, c2p, dHp, hbar, sn, cs, kL, kC, kH float64) float64 {
+	dLp := l2 - l1
+	dCp := c2p - c1p
+	lbar := (l1 + l2) / 2
+	cbar := (c1p + c2p) / 2
 	c2h, s2h := 2*cs*cs-1, 2*sn*cs
 	c3h, s3h := cs*(4*cs*cs-3), sn*(3-4*sn*sn)
 	c4h, s4h := 2*c2h*c2h-1, 2*s2h*c2h

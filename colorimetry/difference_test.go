@@ -340,3 +340,28 @@ func BenchmarkDE2000(b *testing.B) {
 	sinkDE = s
 	b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "pairs/s")
 }
+
+// TestDeltaE2000NearOpposite checks the fast path against the reference
+// transcription of Sharma et al. (2005) around the switch to the angle
+// form: hues from 179.9° to 180.1° apart, and one chroma at zero. The two
+// are the same formula, so they agree to round-off (1e-12).
+func TestDeltaE2000NearOpposite(t *testing.T) {
+	t.Parallel()
+	for _, c := range []float64{0.5, 3, 40} {
+		for d := 179.9; d <= 180.1; d += 0.0013 {
+			for _, h0 := range []float64{0, 37, 181, 300} {
+				h1, h2 := h0*math.Pi/180, (h0+d)*math.Pi/180
+				a := Lab{L: 50, A: c * math.Cos(h1), B: c * math.Sin(h1)}
+				b := Lab{L: 52, A: 1.3 * c * math.Cos(h2), B: 1.3 * c * math.Sin(h2)}
+				got, want := DeltaE2000(a, b), deltaE2000Ref(a, b, 1, 1, 1).DE
+				if math.Abs(got-want) > 1e-12*math.Max(1, want) {
+					t.Fatalf("C %g, hues %g° and %g°: fast %.15g, reference %.15g", c, h0, h0+d, got, want)
+				}
+			}
+		}
+	}
+	a, b := Lab{L: 40, A: 0, B: 0}, Lab{L: 45, A: 10, B: -3}
+	if got, want := DeltaE2000(a, b), deltaE2000Ref(a, b, 1, 1, 1).DE; math.Abs(got-want) > 1e-12 {
+		t.Errorf("zero chroma: fast %.15g, reference %.15g", got, want)
+	}
+}
