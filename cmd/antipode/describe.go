@@ -652,16 +652,6 @@ func writeJSON(w io.Writer, v any) error {
 	return enc.Encode(v)
 }
 
-// printDescribe prints rows as one table with its header and notes.
-func printDescribe(w io.Writer, rows []describeRow, o describeOpts) {
-	out := newDescribeOut(w, o, false)
-	for _, r := range rows {
-		// Errors come only from JSON encoding, which is not used here.
-		_ = out.add(r)
-	}
-	_ = out.finish()
-}
-
 // printDescribeHeader prints the line that says what the table shows.
 func printDescribeHeader(w io.Writer, first describeRow, o describeOpts) {
 	what := o.as

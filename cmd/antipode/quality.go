@@ -122,8 +122,9 @@ func lightQualityNote(w io.Writer) {
 
 // lightsGoalHelp explains the quality goals of solve on a lights model.
 const lightsGoalHelp = `--maximize ra|rf|r9|efficacy|melanopic or --minimize melanopic ranks first
-the mix, among all that reach the target white exactly (and its level, with
---level), that is best by that quality: the colour rendering index Ra or R9
+the mix, among all that reach the target white (exactly, or within
+--tolerance-uv-prime / --tolerance-cct and --tolerance-duv; and its level,
+with --level), that is best by that quality: the colour rendering index Ra or R9
 (CIE 13.3), the colour fidelity index Rf (CIE 224:2017), the luminous
 efficacy of radiation of the channels' light, or the melanopic daylight
 efficacy ratio (CIE S 026; high for a stimulating, alerting light, low for

@@ -11,6 +11,13 @@ Chromaticity
   Duv (JSON duv) is the signed distance from the Planckian locus in the CIE 1960
   u,v diagram, positive above the locus (greenish), negative below (pinkish).
 
+Target whites of a light-mix solve
+  solve --cct K [--duv d] (or --xy x,y) reaches the white exactly. With a
+  quality goal (--maximize ra …), --tolerance-uv-prime r lets the mix land
+  anywhere within Δu′v′ ≤ r of the target, and --tolerance-cct K together with
+  --tolerance-duv d within a CCT/Duv box; the output shows what the tolerance
+  buys (the goal at 0, half and the whole tolerance).
+
 Correlated colour temperature
   CCT is defined only for |Duv| ≤ 0.05 (CIE 015:2018); beyond that antipode
   reports null with a warning rather than a misleading number.
