@@ -37,33 +37,47 @@ func (c XYZ) Scale(k float64) XYZ { return XYZ{k * c.X, k * c.Y, k * c.Z} }
 func (c XYZ) Finite() bool { return isFinite(c.X) && isFinite(c.Y) && isFinite(c.Z) }
 
 // ScaleToY returns c scaled so that its Y equals y. It returns
-// ErrZeroLuminance when c.Y is zero or not finite.
+// ErrZeroLuminance when c.Y is zero or not finite, and ErrNotFinite when
+// y is not finite or the scaled values overflow the float64 range.
 func (c XYZ) ScaleToY(y float64) (XYZ, error) {
 	if c.Y == 0 || !c.Finite() {
 		return XYZ{}, fmt.Errorf("cannot scale %v to Y = %g: %w", c, y, ErrZeroLuminance)
 	}
-	return c.Scale(y / c.Y), nil
+	d := c.Scale(y / c.Y)
+	if !d.Finite() {
+		return XYZ{}, fmt.Errorf("scaling %v to Y = %g overflows: %w", c, y, ErrNotFinite)
+	}
+	return d, nil
 }
 
 // XY returns the chromaticity x = X/(X+Y+Z), y = Y/(X+Y+Z). It returns
-// ErrZeroLuminance when X+Y+Z is zero or a component is not finite.
+// ErrZeroLuminance when X+Y+Z is zero or a component is not finite, and
+// ErrNotFinite when the sum overflows the float64 range.
 func (c XYZ) XY() (XY, error) {
 	s := c.X + c.Y + c.Z
 	if s == 0 || !c.Finite() {
 		return XY{}, fmt.Errorf("chromaticity of %v: %w", c, ErrZeroLuminance)
+	}
+	if !isFinite(s) {
+		return XY{}, fmt.Errorf("chromaticity of %v: X+Y+Z overflows: %w", c, ErrNotFinite)
 	}
 	return XY{c.X / s, c.Y / s}, nil
 }
 
 // UVPrime returns the CIE 1976 chromaticity u′ = 4X/(X+15Y+3Z),
 // v′ = 9Y/(X+15Y+3Z). It returns ErrZeroLuminance when the denominator is
-// zero or a component is not finite.
+// zero or a component is not finite, and ErrNotFinite when the
+// denominator or numerators overflow the float64 range.
 func (c XYZ) UVPrime() (UVPrime, error) {
 	d := c.X + 15*c.Y + 3*c.Z
 	if d == 0 || !c.Finite() {
 		return UVPrime{}, fmt.Errorf("u′v′ of %v: %w", c, ErrZeroLuminance)
 	}
-	return UVPrime{4 * c.X / d, 9 * c.Y / d}, nil
+	p := UVPrime{4 * c.X / d, 9 * c.Y / d}
+	if !isFinite(d) || !isFinite(p.U) || !isFinite(p.V) {
+		return UVPrime{}, fmt.Errorf("u′v′ of %v: X+15Y+3Z overflows: %w", c, ErrNotFinite)
+	}
+	return p, nil
 }
 
 // UV returns the CIE 1960 chromaticity u, v. It returns ErrZeroLuminance
@@ -80,12 +94,17 @@ func (c XYZ) UV() (UV, error) {
 func (c XYZ) String() string { return fmt.Sprintf("XYZ(%.4f, %.4f, %.4f)", c.X, c.Y, c.Z) }
 
 // XYZ returns the tristimulus values with luminance Y of the chromaticity
-// p. It returns ErrZeroLuminance when p.Y is zero.
+// p. It returns ErrZeroLuminance when p.Y is zero, and ErrNotFinite when
+// the result overflows the float64 range.
 func (p XY) XYZ(Y float64) (XYZ, error) {
 	if p.Y == 0 || !isFinite(p.X) || !isFinite(p.Y) {
 		return XYZ{}, fmt.Errorf("tristimulus values of chromaticity (%g, %g): %w", p.X, p.Y, ErrZeroLuminance)
 	}
-	return XYZ{Y * p.X / p.Y, Y, Y * (1 - p.X - p.Y) / p.Y}, nil
+	c := XYZ{Y * p.X / p.Y, Y, Y * (1 - p.X - p.Y) / p.Y}
+	if !c.Finite() {
+		return XYZ{}, fmt.Errorf("tristimulus values of chromaticity (%g, %g) at Y = %g: %w", p.X, p.Y, Y, ErrNotFinite)
+	}
+	return c, nil
 }
 
 // UVPrime converts x, y to u′, v′ (CIE 015:2018 eq. 8.3–8.4). The result

@@ -7,6 +7,8 @@ import "math"
 // libraries). They are hot-path functions: they return a float64 without
 // an error, and their inputs must be finite; XYZ.Lab and Lab.XYZ validate
 // the data that produce Lab values. With a NaN input the result is NaN.
+// For components within ±LabLimit (which XYZ.Lab never exceeds) the result
+// is finite.
 
 // DeltaEab returns the CIE 1976 colour difference ΔE*ab, the Euclidean
 // distance between a and b in CIELAB (CIE 015:2018 §8; ISO/CIE 11664-4),
@@ -84,7 +86,10 @@ func DeltaECMC(a, b Lab, l, c float64) float64 {
 	}
 	sc := 0.0638*ca/(1+0.0131*ca) + 0.638
 	c4 := ca * ca * ca * ca
-	f := math.Sqrt(c4 / (c4 + 1900))
+	f := 1.0 // the limit of √(C⁴/(C⁴+1900)) where C⁴ overflows
+	if c4 <= math.MaxFloat64 {
+		f = math.Sqrt(c4 / (c4 + 1900))
+	}
 	var t float64
 	if 164 <= h && h <= 345 {
 		t = 0.56 + math.Abs(0.2*math.Cos((h+168)*(math.Pi/180)))
@@ -135,8 +140,7 @@ func DeltaE2000K(a, b Lab, kL, kC, kH float64) float64 {
 	// Sharma et al. (2005), step 1: a′, C′. Lab values are far from the
 	// range where x² overflows, so plain square roots serve for hypot.
 	cab := (math.Sqrt(a.A*a.A+a.B*a.B) + math.Sqrt(b.A*b.A+b.B*b.B)) / 2
-	c7 := pow7(cab)
-	g := 0.5 * (1 - math.Sqrt(c7/(c7+pow25to7)))
+	g := 0.5 * (1 - math.Sqrt(ratio7(pow7(cab))))
 	a1p := (1 + g) * a.A
 	a2p := (1 + g) * b.A
 	c1p := math.Sqrt(a1p*a1p + a.B*a.B)
@@ -224,8 +228,7 @@ func deltaE2000Weights(l1, l2, c1p, c2p, dHp, hbar, sn, cs, kL, kC, kH float64) 
 		0.32*(c3h*cos6-s3h*sin6) - 0.20*(c4h*cos63+s4h*sin63)
 	x := (hbar - 275) / 25
 	dTheta := 30 * math.Exp(-x*x)
-	cb7 := pow7(cbar)
-	rc := 2 * math.Sqrt(cb7/(cb7+pow25to7))
+	rc := 2 * math.Sqrt(ratio7(pow7(cbar)))
 	l50 := (lbar - 50) * (lbar - 50)
 	sl := 1 + 0.015*l50/math.Sqrt(20+l50)
 	sc := 1 + 0.045*cbar
@@ -236,6 +239,16 @@ func deltaE2000Weights(l1, l2, c1p, c2p, dHp, hbar, sn, cs, kL, kC, kH float64) 
 	tc := dCp / (kC * sc)
 	th := dHp / (kH * sh)
 	return math.Sqrt(tl*tl + tc*tc + th*th + rt*tc*th)
+}
+
+// ratio7 returns c7/(c7 + 25⁷), the CIEDE2000 chroma ratio of G and R_C,
+// and its limit 1 where c7 = C⁷ overflowed to +Inf (C above about 1e44),
+// so that large chromas give no NaN.
+func ratio7(c7 float64) float64 {
+	if c7 > math.MaxFloat64 {
+		return 1
+	}
+	return c7 / (c7 + pow25to7)
 }
 
 // pow7 returns x⁷.

@@ -64,9 +64,13 @@ func (g Grid) Equal(h Grid) bool {
 	return g.N == h.N && math.Abs(g.Start-h.Start) < 1e-9 && math.Abs(g.Step-h.Step) < 1e-9
 }
 
-// Valid reports whether g has a positive finite step and at least 3 points.
+// Valid reports whether g has a positive finite step, at least 3 points,
+// a positive start (wavelengths are positive) and a finite end, with its
+// last two wavelengths distinct in float64 (a step not lost to rounding
+// against the start).
 func (g Grid) Valid() bool {
-	return g.Step > 0 && isFinite(g.Step) && isFinite(g.Start) && g.N >= 3
+	return g.Step > 0 && isFinite(g.Step) && g.Start > 0 && isFinite(g.Start) && g.N >= 3 &&
+		isFinite(g.End()) && g.End() > g.Wavelength(g.N-2)
 }
 
 // Contains reports whether nm lies within g's range (1e-9 nm slack).

@@ -96,6 +96,11 @@ func resample(out []float64, src Grid, v []float64, m Interp, e Extrap, dst Grid
 			}
 		default:
 			out[i] = p(nm)
+			if x := out[i]; math.IsNaN(x) || math.IsInf(x, 0) {
+				// Finite data near ±1e308 can overflow in the
+				// interpolation's weighted sums.
+				return fmt.Errorf("%v interpolation overflows the float64 range at %g nm: %w", m, nm, ErrNotFinite)
+			}
 		}
 	}
 	return nil

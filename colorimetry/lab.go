@@ -18,6 +18,24 @@ var ErrWhitePoint = errors.New("invalid white point")
 // neutral axis.
 type Lab struct{ L, A, B float64 }
 
+// LabLimit bounds the CIELAB and CIELUV components the package returns
+// without an error: XYZ.Lab and XYZ.Luv refuse results beyond ±1e150
+// (tristimulus values some 1e445 times the white's — not a colour), so
+// that squares and sums of components in the colour differences cannot
+// overflow.
+const LabLimit = 1e150
+
+// withinLimit reports whether |v| ≤ LabLimit for each value (false for
+// NaN).
+func withinLimit(v ...float64) bool {
+	for _, x := range v {
+		if !(math.Abs(x) <= LabLimit) {
+			return false
+		}
+	}
+	return true
+}
+
 // LCh is a CIELAB colour in cylindrical coordinates (ISO/CIE 11664-4):
 // lightness L* (0–100), chroma C*ab (≥ 0, CIE units) and hue angle h_ab in
 // degrees in [0, 360).
@@ -97,7 +115,11 @@ func (c XYZ) Lab(white XYZ) (Lab, error) {
 	fx := labF(c.X / white.X)
 	fy := labF(c.Y / white.Y)
 	fz := labF(c.Z / white.Z)
-	return Lab{L: 116*fy - 16, A: 500 * (fx - fy), B: 200 * (fy - fz)}, nil
+	lab := Lab{L: 116*fy - 16, A: 500 * (fx - fy), B: 200 * (fy - fz)}
+	if !withinLimit(lab.L, lab.A, lab.B) {
+		return Lab{}, fmt.Errorf("CIELAB of %v relative to %v is beyond ±%g: %w", c, white, LabLimit, ErrNotFinite)
+	}
+	return lab, nil
 }
 
 // XYZ returns the tristimulus values of the CIELAB colour c relative to the
@@ -114,11 +136,15 @@ func (c Lab) XYZ(white XYZ) (XYZ, error) {
 	fy := (c.L + 16) / 116
 	fx := fy + c.A/500
 	fz := fy - c.B/200
-	return XYZ{
+	x := XYZ{
 		X: white.X * labFInv(fx),
 		Y: white.Y * labFInv(fy),
 		Z: white.Z * labFInv(fz),
-	}, nil
+	}
+	if !x.Finite() {
+		return XYZ{}, fmt.Errorf("tristimulus values of %v overflow the float64 range: %w", c, ErrNotFinite)
+	}
+	return x, nil
 }
 
 // Finite reports whether all three components of c are finite.
@@ -194,12 +220,19 @@ func (c XYZ) Luv(white XYZ) (Luv, error) {
 	l := 116*labF(c.Y/white.Y) - 16
 	d := c.X + 15*c.Y + 3*c.Z
 	if d == 0 {
+		if !withinLimit(l) {
+			return Luv{}, fmt.Errorf("CIELUV of %v relative to %v is beyond ±%g: %w", c, white, LabLimit, ErrNotFinite)
+		}
 		return Luv{L: l}, nil
 	}
 	dn := white.X + 15*white.Y + 3*white.Z
 	du := 4*c.X/d - 4*white.X/dn
 	dv := 9*c.Y/d - 9*white.Y/dn
-	return Luv{L: l, U: 13 * l * du, V: 13 * l * dv}, nil
+	luv := Luv{L: l, U: 13 * l * du, V: 13 * l * dv}
+	if !withinLimit(luv.L, luv.U, luv.V) {
+		return Luv{}, fmt.Errorf("CIELUV of %v relative to %v is beyond ±%g: %w", c, white, LabLimit, ErrNotFinite)
+	}
+	return luv, nil
 }
 
 // XYZ returns the tristimulus values of the CIELUV colour c relative to the

@@ -229,7 +229,8 @@ func (s Spectrum) At(nm float64) float64 {
 // Resample returns s evaluated on the grid g with its own interpolation
 // and extrapolation rules. Resampling onto the spectrum's own grid returns
 // s unchanged. It returns an error wrapping ErrCoverage when g reaches
-// beyond the data under ExtrapError.
+// beyond the data under ExtrapError, and ErrNotFinite when interpolating
+// values near ±1e308 overflows.
 func (s Spectrum) Resample(g Grid) (Spectrum, error) {
 	if s.grid.Equal(g) {
 		return s, nil

@@ -90,7 +90,9 @@ func (w *Weights) ObserverName() string { return w.observer }
 
 // XYZ returns the tristimulus values of s. A spectrum on another grid is
 // first resampled onto w's grid by its own interpolation and extrapolation
-// rules (CIE 015: interpolate the data, not the weights).
+// rules (CIE 015: interpolate the data, not the weights). It returns an
+// error wrapping ErrNotFinite when the sums overflow the float64 range
+// (values near 1e308).
 func (w *Weights) XYZ(s Spectrum) (XYZ, error) {
 	if s.IsZero() {
 		return XYZ{}, fmt.Errorf("empty spectrum: %w", ErrTooFew)
@@ -99,7 +101,11 @@ func (w *Weights) XYZ(s Spectrum) (XYZ, error) {
 	if err != nil {
 		return XYZ{}, err
 	}
-	return w.dot(r.values), nil
+	c := w.dot(r.values)
+	if !c.Finite() {
+		return XYZ{}, fmt.Errorf("tristimulus values %v overflow the float64 range: %w", c, ErrNotFinite)
+	}
+	return c, nil
 }
 
 // dot returns the three weighted sums of v (len w.grid.N).

@@ -134,6 +134,10 @@ func (c *Conditions) pair(a, b colorimetry.Spectrum, m Mode) (xa, xb colorimetry
 		if !(x[i].Y > 0) {
 			return xa, xb, inputErr(in.name, fmt.Errorf("%w: Y = %g on %v", colorimetry.ErrZeroLuminance, x[i].Y, c.grid))
 		}
+		// Chromaticity must be defined: X+15Y+3Z may overflow.
+		if _, err := x[i].UVPrime(); err != nil {
+			return xa, xb, inputErr(in.name, err)
+		}
 	}
 	return x[0], x[1], nil
 }
@@ -158,7 +162,12 @@ func spectralResidual(v, w []float64) (s, rms, maxAbs float64, err error) {
 		maxAbs = math.Max(maxAbs, math.Abs(r))
 	}
 	p := s * peak
-	return s, math.Sqrt(ss/float64(len(v))) / p, maxAbs / p, nil
+	rms, maxAbs = math.Sqrt(ss/float64(len(v)))/p, maxAbs/p
+	if math.IsInf(ss, 0) || math.IsNaN(rms) || math.IsInf(rms, 0) || math.IsInf(maxAbs, 0) {
+		// Values near ±1e154 and beyond overflow the sum of squares.
+		return 0, 0, 0, fmt.Errorf("spectral residual overflows the float64 range: %w", colorimetry.ErrNotFinite)
+	}
+	return s, rms, maxAbs, nil
 }
 
 // appendRangeWarning warns when a spectral comparison does not span the
@@ -251,7 +260,9 @@ type Ratio struct {
 // μ = t·D_b / (D_a + t·D_b), D = X + 15Y + 3Z. The white is projected onto
 // the line, μ clamped to the segment [0, 1], and t recovered from μ.
 //
-// Errors are those of CheckAdditive for bad input.
+// Errors are those of CheckAdditive for bad input, and one wrapping
+// colorimetry.ErrNotFinite when a and b differ in scale so much that the
+// ratio overflows the float64 range.
 func (c *Conditions) MixRatio(a, b colorimetry.Spectrum, m Mode) (Ratio, error) {
 	if err := checkMode(m, "the mixing ratio", Lights, Surfaces); err != nil {
 		return Ratio{}, err
@@ -291,6 +302,13 @@ func (c *Conditions) MixRatio(a, b colorimetry.Spectrum, m Mode) (Ratio, error) 
 		rp := pa / (t * pb)
 		r.Weight, r.RatioLuminance, r.RatioPower = &t, &rl, &rp
 		r.FractionLuminance = t * xb.Y / (xa.Y + t*xb.Y)
+		for _, v := range []float64{t, rl, rp, r.FractionLuminance} {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				// a and b differ in scale by a factor near the float64
+				// range: the ratio overflows.
+				return Ratio{}, fmt.Errorf("mixing ratio of b to a (luminances %g and %g) overflows the float64 range: %w", xa.Y, xb.Y, colorimetry.ErrNotFinite)
+			}
+		}
 	}
 	return r, nil
 }

@@ -281,6 +281,9 @@ func (l *Library) additivePartners(target colorimetry.Spectrum, m Mode, opt Opti
 	if !(xa.Y > 0) {
 		return nil, inputErr("target", fmt.Errorf("%w: Y = %g", colorimetry.ErrZeroLuminance, xa.Y))
 	}
+	if _, err := xa.UVPrime(); err != nil {
+		return nil, inputErr("target", err) // X+15Y+3Z overflows
+	}
 	r, err := target.Resample(c.grid)
 	if err != nil {
 		return nil, inputErr("target", err)
@@ -310,7 +313,11 @@ func (l *Library) additivePartners(target colorimetry.Spectrum, m Mode, opt Opti
 		if !(s > 0) {
 			return 0, false
 		}
-		return math.Sqrt(math.Max(0, mm-mw*mw/ww)/n) / (s * peakW), true
+		r := math.Sqrt(math.Max(0, mm-mw*mw/ww)/n) / (s * peakW)
+		if math.IsNaN(r) || math.IsInf(r, 0) {
+			return 0, false // sums of squares overflowed: no residual
+		}
+		return r, true
 	}
 
 	k := l.Len()
@@ -323,12 +330,13 @@ func (l *Library) additivePartners(target colorimetry.Spectrum, m Mode, opt Opti
 		f := store[4*j : 4*j+4 : 4*j+4]
 		xb := colorimetry.XYZ{X: xyz[3*j], Y: xyz[3*j+1], Z: xyz[3*j+2]}
 		var mx mix
-		if xb.Y > 0 && xb.X+15*xb.Y+3*xb.Z > 0 {
+		if _, uvErr := xb.UVPrime(); xb.Y > 0 && uvErr == nil && xb.X+15*xb.Y+3*xb.Z > 0 {
 			mx = c.nearestMix(xa, xb, m)
 			f[1] = mx.line
 			p.LineDistanceUVPrime = &f[1]
 		} else {
-			// No luminance: the candidate cannot move the mix.
+			// No luminance (or tristimulus values beyond the float64
+			// range): the candidate cannot move the mix.
 			mx = mix{delta: colorimetry.DeltaUVPrime(mustUV(xa), c.wuv[wi])}
 		}
 		f[0] = mx.delta
@@ -349,7 +357,9 @@ func (l *Library) additivePartners(target colorimetry.Spectrum, m Mode, opt Opti
 			mm = aa + 2*t*ab + t*t*l.sumSq[j]
 			mw = aw + t*l.dotW[wi][j]
 			f[2] = xa.Y / (t * xb.Y)
-			p.RatioLuminance = &f[2]
+			if !math.IsInf(f[2], 0) && !math.IsNaN(f[2]) && !math.IsInf(t, 0) {
+				p.RatioLuminance = &f[2] // else a and b differ in scale beyond the float64 range
+			}
 		default:
 			mm, mw = aa, aw
 		}

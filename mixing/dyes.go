@@ -301,8 +301,9 @@ func (m *Dyes) index(name string) int {
 // model's grid) of the dyes at the given concentrations (model unit) and
 // relative path length ℓ > 0, with warnings when a concentration times ℓ
 // exceeds the dye's calibrated range or the absorbance exceeds the
-// calibration's absorbance limit. Errors: see Concentrations, and a path
-// length that is not finite and positive.
+// calibration's absorbance limit. Errors: see Concentrations, a path
+// length that is not finite and positive, and concentrations times path
+// length so large that the absorbance overflows (ErrNotFinite).
 func (m *Dyes) Transmittance(amounts []Amount, pathLength float64) (colorimetry.Spectrum, []string, error) {
 	if !dyeFinite(pathLength) || pathLength <= 0 {
 		return colorimetry.Spectrum{}, nil, fmt.Errorf("path length %v is not a finite positive number", pathLength)
@@ -312,6 +313,15 @@ func (m *Dyes) Transmittance(amounts []Amount, pathLength float64) (colorimetry.
 		return colorimetry.Spectrum{}, nil, err
 	}
 	a := m.AbsorbanceTo(make([]float64, m.grid.N), c, pathLength)
+	for j, v := range a {
+		// Concentrations times the path length near the float64 range
+		// overflow (∞·0 at a wavelength where a dye does not absorb), and
+		// a negative absorbance below −308 makes 10^(−A) overflow.
+		if math.IsNaN(v) || math.IsInf(math.Pow(10, -v), 0) {
+			return colorimetry.Spectrum{}, nil, fmt.Errorf("absorbance at %g nm is %v: concentrations × path length %v overflow the float64 range: %w",
+				m.grid.Wavelength(j), v, pathLength, ErrNotFinite)
+		}
+	}
 	return m.spectrumOf(a), m.rangeWarnings(c, pathLength, a), nil
 }
 

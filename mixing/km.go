@@ -216,20 +216,36 @@ func cothTimes(b, sx float64) float64 {
 //	a = 1 + K/S, b = √(a² − 1).
 //
 // Without scattering (s = 0) the film only absorbs: R = Rg·exp(−2·K·X).
-// Special cases are: x = 0 gives rg; x = +Inf gives R∞ of k/s.
+// Special cases are: x = 0 gives rg; x = +Inf gives R∞ of k/s; k = s = 0
+// gives rg. The result is finite for k and s up to 1e150.
 func LayerReflectance(k, s, x, rg float64) float64 {
 	switch {
-	case x == 0:
+	case x == 0, k == 0 && s == 0:
 		return rg
-	case s == 0:
+	case s == 0, math.IsInf(k/s, 1):
+		// No scattering, or too little to tell from none in float64.
 		return rg * math.Exp(-2*k*x)
 	case math.IsInf(x, 1):
 		return ReflectanceInf(k / s)
+	case k == 0, k/s == 0:
+		// No absorption (or K/S below the float64 range): R = (S·X·(1 − Rg) + Rg) / (S·X·(1 − Rg) + 1),
+		// the limit of the hyperbolic solution (Kubelka 1948).
+		sx := s * x
+		if math.IsInf(sx, 1) {
+			return 1
+		}
+		d := sx * (1 - rg)
+		return (d + rg) / (d + 1)
 	}
-	a := 1 + k/s
-	b := math.Sqrt(k*k+2*k*s) / s // √(a² − 1) without cancellation
+	q := k / s                         // a = 1 + K/S of Kubelka's solution
+	b := math.Sqrt(q) * math.Sqrt(q+2) // √(a² − 1) without cancellation, underflow or overflow
 	bc := cothTimes(b, s*x)
-	return (1 - rg*(a-bc)) / (a - rg + bc)
+	if math.IsInf(bc, 1) {
+		return rg // S·X so small that 1/(S·X) overflows: the film vanishes
+	}
+	// (1 − Rg·(a − b·coth)) / (a − Rg + b·coth) with a = 1 + K/S written
+	// out, so that 1 − a does not lose K/S to rounding when K/S ≪ 1.
+	return ((1 - rg) - rg*(q-bc)) / ((1 - rg) + q + bc)
 }
 
 // LayerTransmittance returns the internal diffuse transmittance of a film
@@ -239,21 +255,32 @@ func LayerReflectance(k, s, x, rg float64) float64 {
 //	T = b / (a·sinh(b·S·X) + b·cosh(b·S·X)),
 //
 // evaluated with exponentials so that thick films give 0, not NaN. Without
-// scattering T = exp(−K·X); without absorption T = 1 / (1 + S·X).
+// scattering T = exp(−K·X); without absorption T = 1 / (1 + S·X). Special
+// cases are: x = 0 or k = s = 0 gives 1; x = +Inf gives 0 otherwise. The
+// result is finite for k and s up to 1e150.
 func LayerTransmittance(k, s, x float64) float64 {
 	switch {
-	case x == 0:
+	case x == 0, k == 0 && s == 0:
 		return 1
-	case s == 0:
+	case math.IsInf(x, 1):
+		return 0
+	case s == 0, math.IsInf(k/s, 1):
 		return math.Exp(-k * x)
-	case k == 0:
+	case k == 0, k/s == 0:
 		return 1 / (1 + s*x)
 	}
-	a := 1 + k/s
-	b := math.Sqrt(k*k+2*k*s) / s
+	q := k / s
+	b := math.Sqrt(q) * math.Sqrt(q+2)
+	ab := (1 + q) / b // a/b, near 1 for K ≫ S, large for K ≪ S; never overflows
 	y := b * s * x
+	if y < 20 {
+		// T = b / (a·sinh y + b·cosh y), divided through by b. The
+		// exponential form below cancels catastrophically as b → 0
+		// (K ≪ S); this one is exact there and cannot overflow.
+		return 1 / (ab*math.Sinh(y) + math.Cosh(y))
+	}
 	e := math.Exp(-y)
-	return 2 * b * e / ((a + b) - (a-b)*e*e)
+	return 2 * e / ((ab + 1) - (ab-1)*e*e)
 }
 
 // ContrastRatio returns the hiding contrast ratio of a film of thickness x

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strings"
 
 	"github.com/antipode-color/antipode/cie"
 	"github.com/antipode-color/antipode/colorimetry"
@@ -123,64 +122,12 @@ const tradeOffPoints = 5
 // (null where not defined); the other recipes hold "trade_off": null. A
 // target the rig cannot reach gets Solve's nearest recipe with a warning
 // that the goal was not searched.
+//
+// SolveQuality is SolveQualityWithin with a zero tolerance: the goal's
+// recipe reaches the target exactly, and every recipe holds the keys
+// "tolerance" and "tolerance_trade_off" null.
 func (m *Lights) SolveQuality(t LightTarget, goal LightGoal, opt LightSolveOptions) (Solution, error) {
-	if goal < GoalNone || goal > GoalMinMelanopic {
-		return Solution{}, fmt.Errorf("lights solve: unknown goal %v", goal)
-	}
-	sol, err := m.Solve(t, opt)
-	if err != nil {
-		return Solution{}, err
-	}
-	q, err := m.newQuality(t, opt)
-	if err != nil {
-		return Solution{}, err
-	}
-	plain := make([][]float64, len(sol.Recipes))
-	for k, r := range sol.Recipes {
-		if plain[k], err = m.Outputs(r.Amounts); err != nil {
-			return Solution{}, fmt.Errorf("lights solve: %w", err)
-		}
-	}
-	if goal != GoalNone {
-		if !sol.Recipes[0].Reachable {
-			sol.Recipes[0].Warnings = append(sol.Recipes[0].Warnings, fmt.Sprintf("the goal %q was not searched: the target is out of reach", goal))
-		} else {
-			rec, err := q.optimum(goal, plain)
-			if err != nil {
-				return Solution{}, err
-			}
-			w := rec.Extra["outputs_w"].([]float64)
-			merged := false
-			for k := range sol.Recipes {
-				if lightSameW(plain[k], w) {
-					// The same mix: name both strategies, the goal first.
-					if st := sol.Recipes[k].Extra["strategy"].(string); !strings.Contains(st, goal.String()) {
-						sol.Recipes[k].Extra["strategy"] = goal.String() + "; " + st
-					}
-					sol.Recipes[k].Extra["trade_off"] = rec.Extra["trade_off"]
-					// Move it first, keeping the order of the others.
-					r, x := sol.Recipes[k], plain[k]
-					copy(sol.Recipes[1:k+1], sol.Recipes[:k])
-					copy(plain[1:k+1], plain[:k])
-					sol.Recipes[0], plain[0] = r, x
-					merged = true
-					break
-				}
-			}
-			if !merged {
-				delete(rec.Extra, "outputs_w")
-				sol.Recipes = append([]Recipe{rec}, sol.Recipes...)
-				plain = append([][]float64{w}, plain...)
-			}
-		}
-	}
-	for k := range sol.Recipes {
-		q.annotate(&sol.Recipes[k], plain[k])
-		if _, ok := sol.Recipes[k].Extra["trade_off"]; !ok {
-			sol.Recipes[k].Extra["trade_off"] = nil
-		}
-	}
-	return sol, nil
+	return m.SolveQualityWithin(t, goal, LightTolerance{}, opt)
 }
 
 // lightQuality evaluates the lighting quality of mixes of one rig for one
@@ -349,13 +296,20 @@ func (q *lightQuality) annotate(r *Recipe, w []float64) {
 	}
 }
 
-// searchSpace is the polytope of mixes that reach the target, in the
-// coordinates of a Nelder–Mead search.
+// searchSpace is the set of mixes that reach the target, in the
+// coordinates of a Nelder–Mead search: the polytope of mixes that reach it
+// exactly or, under a tolerance, the mixes whose chromaticity lies in the
+// tolerance region (with the level equations, if any, still exact).
 type searchSpace struct {
 	vertices [][]float64
-	centre   []float64   // mean of the vertices
+	centre   []float64   // mean of the vertices of the exact polytope
 	basis    [][]float64 // orthonormal null-space vectors (each len n)
 	scaleUp  bool        // scale the result to full brightness
+	// Under a tolerance (region non-nil): a point w of the space has the
+	// chromaticity of base + Σ wᵢ·chᵢ within region.
+	region *lightRegion
+	base   colorimetry.XYZ
+	ch     []colorimetry.XYZ
 }
 
 // space returns the search space of the solve: the chromaticity (and
@@ -363,36 +317,36 @@ type searchSpace struct {
 // light or luminance target it is the cross-section at a small luminance,
 // which holds every mix up to its level.
 func (q *lightQuality) space() (*searchSpace, error) {
+	return q.spaceAt(q.p.t.XY, true)
+}
+
+// spaceAt returns the search space of the solve with its target
+// chromaticity moved to xy (its level equation, if any, unchanged); its
+// null-space basis only when basis is true.
+func (q *lightQuality) spaceAt(xy colorimetry.XY, basis bool) (*searchSpace, error) {
 	p := q.p
 	var a [][]float64
 	var c []float64
 	sp := &searchSpace{}
 	switch {
 	case p.t.Y > 0:
-		target, _ := p.t.XY.XYZ(p.t.Y / p.b.scale)
+		target, _ := xy.XYZ(p.t.Y / p.b.scale)
 		a, c = p.xyzRows(target)
 	case p.addSpec.IsZero():
 		// The channels alone are scale-free: search their shapes on the
 		// cross-section at the smallest channel luminance, at which no
 		// output can exceed 1, and evaluate each at full drive (where the
 		// dark, if any, is corrected for; see lightQuality.full).
-		a, c = p.chromaRows(p.t.XY, colorimetry.XYZ{})
-		y0 := math.Inf(1)
-		row := make([]float64, p.n)
-		for i, ch := range p.b.ch {
-			row[i] = ch.Y
-			if ch.Y > 0 {
-				y0 = math.Min(y0, ch.Y)
-			}
-		}
-		if math.IsInf(y0, 1) {
-			return nil, errors.New("lights solve: no channel gives light")
+		a, c = p.chromaRows(xy, colorimetry.XYZ{})
+		row, y0, err := q.sectionRow()
+		if err != nil {
+			return nil, err
 		}
 		a = append(a, row)
 		c = append(c, y0)
 		sp.scaleUp = true
 	default:
-		a, c = p.chromaRows(p.t.XY, p.off)
+		a, c = p.chromaRows(xy, p.off)
 	}
 	dim := 1e-9 * p.b.fullY()
 	lightVertices(a, c, p.n, func(w []float64) {
@@ -415,9 +369,46 @@ func (q *lightQuality) space() (*searchSpace, error) {
 			sp.centre[i] += x / float64(len(sp.vertices))
 		}
 	}
-	// Null space of the equations by SVD: the right singular vectors of
-	// the zero singular values.
-	am := mat.NewDense(len(a), p.n, nil)
+	if !basis {
+		return sp, nil
+	}
+	var err error
+	if sp.basis, err = nullSpace(a, p.n); err != nil {
+		return nil, err
+	}
+	return sp, nil
+}
+
+// sectionRow returns the cross-section equation of a scale-free solve:
+// the channels' luminance Σ wᵢ·Yᵢ = y0, the smallest channel luminance.
+func (q *lightQuality) sectionRow() ([]float64, float64, error) {
+	y0 := math.Inf(1)
+	row := make([]float64, q.p.n)
+	for i, ch := range q.p.b.ch {
+		row[i] = ch.Y
+		if ch.Y > 0 {
+			y0 = math.Min(y0, ch.Y)
+		}
+	}
+	if math.IsInf(y0, 1) {
+		return nil, 0, errors.New("lights solve: no channel gives light")
+	}
+	return row, y0, nil
+}
+
+// nullSpace returns an orthonormal basis of the null space of the rows a
+// (each of length n) by SVD: the right singular vectors of the zero
+// singular values. Without rows it is the unit vectors.
+func nullSpace(a [][]float64, n int) ([][]float64, error) {
+	if len(a) == 0 {
+		out := make([][]float64, n)
+		for j := range out {
+			out[j] = make([]float64, n)
+			out[j][j] = 1
+		}
+		return out, nil
+	}
+	am := mat.NewDense(len(a), n, nil)
 	for r := range a {
 		am.SetRow(r, a[r])
 	}
@@ -434,10 +425,11 @@ func (q *lightQuality) space() (*searchSpace, error) {
 			rank++
 		}
 	}
-	for j := rank; j < p.n; j++ {
-		sp.basis = append(sp.basis, mat.Col(nil, j, &vm))
+	var out [][]float64
+	for j := rank; j < n; j++ {
+		out = append(out, mat.Col(nil, j, &vm))
 	}
-	return sp, nil
+	return out, nil
 }
 
 // toZ returns the search coordinates of outputs w (projected onto the
@@ -475,22 +467,72 @@ func (sp *searchSpace) fromZ(z []float64) ([]float64, float64) {
 	}
 	t = math.Max(t, 0)
 	w := make([]float64, n)
+	at := func(t float64) []float64 {
+		for i, x := range d {
+			w[i] = math.Min(math.Max(sp.centre[i]+t*x, 0), 1)
+		}
+		return w
+	}
+	if sp.region != nil && !sp.inside(at(t)) {
+		// Under a tolerance: the last point of the ray within the region
+		// (the centre is inside it; the region is star-shaped about the
+		// target, so the ray leaves it once), by bisection.
+		lo, hi := 0.0, t
+		for range 32 {
+			mid := (lo + hi) / 2
+			if sp.inside(at(mid)) {
+				lo = mid
+			} else {
+				hi = mid
+			}
+		}
+		t = lo
+	}
+	at(t)
 	var norm float64
-	for i, x := range d {
-		w[i] = math.Min(math.Max(sp.centre[i]+t*x, 0), 1)
+	for _, x := range d {
 		norm += x * x
 	}
 	return w, (1 - t) * math.Sqrt(norm)
 }
 
+// inside reports whether the point w of the space lies within its
+// tolerance region (always, without one).
+func (sp *searchSpace) inside(w []float64) bool {
+	if sp.region == nil {
+		return true
+	}
+	c := sp.base
+	for i, x := range w {
+		c = c.Add(sp.ch[i].Scale(x))
+	}
+	uv, err := c.UVPrime()
+	return err == nil && sp.region.contains(uv)
+}
+
 // full returns the mix that a point w of the search space stands for: w
 // itself, or on a cross-section the mix of that shape at full drive,
 // corrected onto the target for the dark (nil if that fails).
+//
+// Under a tolerance the mix at full drive is corrected onto the
+// chromaticity of the channels' light of w (which lies in the region),
+// not onto the target.
 func (q *lightQuality) full(sp *searchSpace, w []float64) []float64 {
 	if !sp.scaleUp || w == nil {
 		return w
 	}
-	return q.scaled(w)
+	if sp.region == nil {
+		return q.scaled(w)
+	}
+	var c colorimetry.XYZ
+	for i, x := range w {
+		c = c.Add(q.p.b.ch[i].Scale(x))
+	}
+	xy, err := c.XY()
+	if err != nil {
+		return nil
+	}
+	return q.scaledTo(w, xy)
 }
 
 // lift returns f evaluated at the mix a point of the search space stands
@@ -541,31 +583,71 @@ func (q *lightQuality) optimum(g LightGoal, plain [][]float64) (Recipe, error) {
 	if err != nil {
 		return Recipe{}, err
 	}
-	best := q.maximise(sp, q.lift(sp, q.signed(g)), plain, g.searched(), 4)
+	w, best, err := q.search(sp, g, plain, nil)
+	if err != nil {
+		return Recipe{}, err
+	}
+	rec := q.p.recipe(w, g.String(), true, nil)
+	rec.Extra["trade_off"] = q.tradeOff(sp, g, best, nil)
+	return rec, nil
+}
+
+// search returns the best mix of goal g over the search space sp (at full
+// level) and the point of sp it stands for, given the outputs of Solve's
+// recipes and further mixes of sp at full level (seeds) that it must not
+// fall behind.
+func (q *lightQuality) search(sp *searchSpace, g LightGoal, plain, seeds [][]float64) ([]float64, []float64, error) {
+	extra := plain
+	if len(seeds) > 0 {
+		extra = append(append([][]float64(nil), plain...), seeds...)
+	}
+	f := q.objective(sp, g)
+	best := q.maximise(sp, q.lift(sp, f), extra, g.searched(), 4)
 	w := q.full(sp, best)
 	if w == nil {
-		return Recipe{}, fmt.Errorf("lights solve: %v is not defined for any mix that reaches the target (is its CCT defined?)", g)
+		return nil, nil, fmt.Errorf("lights solve: %v is not defined for any mix that reaches the target (is its CCT defined?)", g)
 	}
 	if !sp.scaleUp && q.p.t.Y == 0 {
 		// The level is free but matters (an added light): keep the best,
 		// made as bright as it can be within the goal's tolerance.
-		w = q.brighten(g, w, plain)
+		w = q.brighten(sp, g, w, plain)
 		best = w
 	}
-	// Never worse than a recipe of the plain solve, at its own level (on
-	// a cross-section with dark, a dimmer mix can gain from the dark).
-	f := q.signed(g)
+	// Never worse than a recipe of the plain solve (or a seed), at its own
+	// level (on a cross-section with dark, a dimmer mix can gain from the
+	// dark).
 	if v, ok := f(w); ok {
-		for _, x := range plain {
+		for _, x := range extra {
 			if u, ok := f(x); ok && u > v {
 				w, v = x, u
 				best = q.section(sp, x)
 			}
 		}
 	}
-	rec := q.p.recipe(w, g.String(), true, nil)
-	rec.Extra["trade_off"] = q.tradeOff(sp, g, best)
-	return rec, nil
+	return w, best, nil
+}
+
+// objective returns the goal's quantity signed so that larger is better,
+// defined only for mixes (at full level) whose whole light lies in the
+// space's tolerance region.
+func (q *lightQuality) objective(sp *searchSpace, g LightGoal) func(w []float64) (float64, bool) {
+	f := q.signed(g)
+	if sp.region == nil {
+		return f
+	}
+	return func(w []float64) (float64, bool) {
+		if !q.wholeInside(sp.region, w) {
+			return 0, false
+		}
+		return f(w)
+	}
+}
+
+// wholeInside reports whether the whole light of outputs w (dark and
+// added light included) has its chromaticity in region r.
+func (q *lightQuality) wholeInside(r *lightRegion, w []float64) bool {
+	uv, err := q.p.b.mixXYZ(w, q.p.add).UVPrime()
+	return err == nil && r.contains(uv)
 }
 
 // scaled returns w scaled so that its largest output is 1 and then moved
@@ -573,6 +655,12 @@ func (q *lightQuality) optimum(g LightGoal, plain [][]float64) (Recipe, error) {
 // strictly inside (0, 1) (the dark and added light shift it a little when
 // the channels are scaled), or nil when that fails.
 func (q *lightQuality) scaled(w []float64) []float64 {
+	return q.scaledTo(w, q.p.t.XY)
+}
+
+// scaledTo is scaled with the chromaticity xy of the whole light in place
+// of the target's.
+func (q *lightQuality) scaledTo(w []float64, xy colorimetry.XY) []float64 {
 	var top float64
 	for _, x := range w {
 		top = math.Max(top, x)
@@ -584,7 +672,7 @@ func (q *lightQuality) scaled(w []float64) []float64 {
 	for i, o := range w {
 		x[i] = o / top
 	}
-	a, c := q.p.chromaRows(q.p.t.XY, q.p.off)
+	a, c := q.p.chromaRows(xy, q.p.off)
 	for range 20 {
 		if lightResidualOK(a, c, x) {
 			return x
@@ -644,9 +732,9 @@ func (g LightGoal) tolerance() float64 {
 // brighten returns the brightest mix on the segment from w to the
 // brightest recipe of the plain solve whose goal quantity is within the
 // goal's tolerance of w's (every mix on the segment reaches the target,
-// the set being convex).
-func (q *lightQuality) brighten(g LightGoal, w []float64, plain [][]float64) []float64 {
-	f := q.signed(g)
+// the set being convex; under a tolerance region each is checked).
+func (q *lightQuality) brighten(sp *searchSpace, g LightGoal, w []float64, plain [][]float64) []float64 {
+	f := q.objective(sp, g)
 	v0, ok := f(w)
 	if !ok {
 		return w
@@ -660,7 +748,12 @@ func (q *lightQuality) brighten(g LightGoal, w []float64, plain [][]float64) []f
 	}
 	// The bright end: the same mix scaled to full drive, corrected back
 	// onto the target; failing that, the brightest plain recipe.
-	bright := q.scaled(w)
+	var bright []float64
+	if sp.region == nil {
+		bright = q.scaled(w)
+	} else if xy, err := q.p.b.mixXYZ(w, q.p.add).XY(); err == nil {
+		bright = q.scaledTo(w, xy)
+	}
 	if bright == nil {
 		for _, x := range plain {
 			if bright == nil || lum(x) > lum(bright) {
@@ -726,7 +819,9 @@ func (q *lightQuality) signed(g LightGoal) func(w []float64) (float64, bool) {
 // maximise returns the best point of f over the search space (nil when f
 // is defined nowhere): the best vertex and, when search is true, the best
 // point that Nelder–Mead searches find from the best starts of the
-// vertices, the centre and the mixes in extra (at any level).
+// vertices, the centre and the mixes in extra (at any level). Under a
+// tolerance the vertices include the best of those on the edge of the
+// region (see edgeCandidates).
 func (q *lightQuality) maximise(sp *searchSpace, f func(w []float64) (float64, bool), extra [][]float64, search bool, starts int) []float64 {
 	type cand struct {
 		w []float64
@@ -747,6 +842,13 @@ func (q *lightQuality) maximise(sp *searchSpace, f func(w []float64) (float64, b
 	offer(sp.centre)
 	for _, w := range extra {
 		offer(q.section(sp, w))
+	}
+	if sp.region != nil {
+		// Under a tolerance the extreme points of the space also lie on
+		// the edge of its region: the best vertices there.
+		for _, w := range q.edgeCandidates(sp, f, !search) {
+			offer(w)
+		}
 	}
 	if len(cands) == 0 {
 		return nil
@@ -788,13 +890,16 @@ func (q *lightQuality) maximise(sp *searchSpace, f func(w []float64) (float64, b
 // secondary quantity whose goal quantity reaches each of tradeOffPoints
 // evenly spaced levels. Each point holds "ra", "r9", "rf",
 // "efficacy_lm_per_w" and "melanopic_der" of the mix at full level.
-func (q *lightQuality) tradeOff(sp *searchSpace, g LightGoal, opt []float64) []map[string]any {
-	prim := q.lift(sp, q.signed(g))
+// Under a tolerance, also (non-nil) is the exact space within sp, searched
+// as well at each level (its mixes belong to sp), so that the curve is
+// never worse than the exact one.
+func (q *lightQuality) tradeOff(sp *searchSpace, g LightGoal, opt []float64, also *searchSpace) []map[string]any {
+	prim := q.lift(sp, q.objective(sp, g))
 	sg := GoalMaxEfficacy
 	if g == GoalMaxEfficacy {
 		sg = GoalMaxRa
 	}
-	sec := q.lift(sp, q.signed(sg))
+	sec := q.lift(sp, q.objective(sp, sg))
 	other := q.maximise(sp, sec, nil, sg.searched(), 2)
 	if other == nil {
 		return nil
@@ -827,7 +932,16 @@ func (q *lightQuality) tradeOff(sp *searchSpace, g LightGoal, opt []float64) []m
 			}
 			return s/secScale - 100*math.Max(0, level-v)/(hi-lo), true
 		}
-		w := q.maximise(sp, f, [][]float64{q.full(sp, opt), q.full(sp, other)}, true, 2)
+		ends := [][]float64{q.full(sp, opt), q.full(sp, other)}
+		w := q.maximise(sp, f, ends, true, 2)
+		if also != nil {
+			if x := q.maximise(also, f, ends, true, 2); x != nil {
+				u, okx := f(x)
+				if v, ok := f(w); w == nil || !ok || (okx && u > v) {
+					w = x
+				}
+			}
+		}
 		if v, ok := prim(w); w == nil || !ok || v < level-1e-9*math.Abs(level) {
 			// The penalty left a shortfall: take the blend of the two ends
 			// that reaches the level instead (every blend reaches the

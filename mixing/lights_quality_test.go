@@ -2,6 +2,7 @@ package mixing
 
 import (
 	"math"
+	"sync"
 	"testing"
 
 	"github.com/antipode-color/antipode/cie"
@@ -65,6 +66,14 @@ func lqGrid(t *testing.T, a [][]float64, c []float64, steps int, visit func(w []
 	}
 }
 
+// The melanopic weighting of lqValue, built once (it is immutable, so
+// the parallel tests may share it).
+var (
+	lqMelOnce sync.Once
+	lqMel     colorimetry.AlphaOpic
+	lqMelErr  error
+)
+
 // lqValue computes a goal's quantity of outputs w independently of the
 // solve: the whole light from the model's spectra, then package rendering
 // and package colorimetry's photometry.
@@ -104,15 +113,18 @@ func lqValue(t *testing.T, m *Lights, g LightGoal, w []float64, add colorimetry.
 		f, err := rendering.ColourFidelity(s)
 		return f.Rf, err == nil
 	case GoalMaxMelanopic, GoalMinMelanopic:
-		act, err := cie.AlphaOpicAction(cie.Melanopic)
-		if err != nil {
-			t.Fatal(err)
+		lqMelOnce.Do(func() {
+			act, err := cie.AlphaOpicAction(cie.Melanopic)
+			if err != nil {
+				lqMelErr = err
+				return
+			}
+			lqMel, lqMelErr = colorimetry.NewAlphaOpic(act, ph, cie.D65())
+		})
+		if lqMelErr != nil {
+			t.Fatal(lqMelErr)
 		}
-		ao, err := colorimetry.NewAlphaOpic(act, ph, cie.D65())
-		if err != nil {
-			t.Fatal(err)
-		}
-		d, err := ao.DER(s)
+		d, err := lqMel.DER(s)
 		return d, err == nil
 	}
 	// Efficacy of the channels' light only (as Solve reports it).

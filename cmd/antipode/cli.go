@@ -87,7 +87,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	default:
 		var ue *usageError
 		if errors.As(err, &ue) {
-			fmt.Fprintf(stderr, "antipode %s: %v (see 'antipode %s --help')\n", name, err, name)
+			fmt.Fprintf(stderr, "antipode %s: %s (see 'antipode %s --help')\n", name, oneLine(err.Error()), name)
 		} else {
 			fmt.Fprintf(stderr, "antipode %s: %s\n", name, oneLine(err.Error()))
 		}

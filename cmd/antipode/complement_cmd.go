@@ -155,15 +155,12 @@ func runComplement(e *env, args []string) error {
 		r.Warnings = append(r.Warnings, "no complementary wavelength: "+err.Error())
 	}
 	if out != "" {
-		if sameFile(out, fileOf(pos[0])) {
-			return usagef("--out %s would replace the input file", out)
-		}
 		var b bytes.Buffer
 		name := in.name + "-complement"
 		if err := specio.WriteColumns(&b, []specio.Named{{Name: name, Spectrum: d.Spectrum}}); err != nil {
 			return err
 		}
-		if err := writeFileAtomic(out, b.Bytes()); err != nil {
+		if err := e.writeOut("--out", out, b.Bytes(), pos[0], illum); err != nil {
 			return err
 		}
 		r.Out = &out

@@ -324,7 +324,7 @@ func mixDyes(e *env, mm mixing.Model, args []string) error {
 		if err := specio.WriteColumns(&b, []specio.Named{{Name: "transmittance", Spectrum: s}}); err != nil {
 			return err
 		}
-		if err := writeFileAtomic(out, b.Bytes()); err != nil {
+		if err := e.writeOut("--out", out, b.Bytes()); err != nil {
 			return err
 		}
 	}

@@ -422,7 +422,7 @@ func mixHalftone(e *env, mm mixing.Model, args []string) error {
 		if err := specio.WriteColumns(&b, []specio.Named{{Name: "reflectance", Spectrum: s}}); err != nil {
 			return err
 		}
-		if err := writeFileAtomic(out, b.Bytes()); err != nil {
+		if err := e.writeOut("--out", out, b.Bytes()); err != nil {
 			return err
 		}
 	}

@@ -86,7 +86,7 @@ CSV (wavelength column, then the spectrum).`,
 
 var solveLightsCommand = &command{
 	name:  "solve",
-	usage: "solve LIGHTS-MODEL.json (--target FILE[:NAME] | --xy x,y | --cct K [--duv d]) [--level Y|target] [--add FILE[:NAME] [--add-level Y]] [--prefer efficacy|reference] [--maximize ra|rf|r9|efficacy|melanopic | --minimize melanopic] [--observer 1931] [--json]",
+	usage: "solve LIGHTS-MODEL.json (--target FILE[:NAME] | --xy x,y | --cct K [--duv d]) [--level Y|target] [--add FILE[:NAME] [--add-level Y]] [--prefer efficacy|reference] [--maximize ra|rf|r9|efficacy|melanopic | --minimize melanopic [--tolerance-uv-prime d] [--tolerance-cct K --tolerance-duv d]] [--observer 1931] [--json]",
 	about: `Finds the drive levels that make the rig reach a target chromaticity — given
 as a light's spectrum (--target), as x, y, or as a CCT and Duv on the Planckian
 locus — exactly, by visiting every vertex of the set of reachable mixes.
@@ -115,14 +115,33 @@ rig cannot reach gives the nearest mix, marked not reachable.
 
 ` + lightsGoalHelp + `
 
+` + lightsToleranceHelp + `
+
 Every recipe also gives Ra and R9 (CIE 13.3), Rf (CIE 224:2017) and the
 melanopic DER (CIE S 026) of the whole light, dark and added light included.`,
 	example: `  $ antipode fit lights kestrel/rig_ramps.csv --out rig.json
   $ antipode solve rig.json --cct 4000 --duv 0
   $ antipode solve rig.json --cct 4000 --add kestrel/rig_filtered.csv
   $ antipode solve rig.json --xy 0.31,0.33 --level 40 --prefer reference --json
-  $ antipode solve rig.json --cct 3200 --maximize ra`,
+  $ antipode solve rig.json --cct 3200 --maximize ra
+  $ antipode solve rig.json --cct 4000 --maximize ra --tolerance-uv-prime 0.002
+  $ antipode solve rig.json --cct 3500 --maximize efficacy --tolerance-cct 100 --tolerance-duv 0.002`,
 }
+
+// lightsToleranceHelp explains the target-white tolerance of a quality
+// goal.
+const lightsToleranceHelp = `A tolerance lets the goal's recipe (and only it) land near the target white
+instead of on it, to buy more of the goal's quality:
+  --tolerance-uv-prime d   Δu′v′ to the target at most d (the same colorimetric
+                           tolerance as in 'antipode pair'; 0.001 is about one
+                           just-noticeable step between whites)
+  --tolerance-cct K        with --cct: |CCT − target CCT| at most K kelvin
+  --tolerance-duv d        with --cct: |Duv − target Duv| at most d
+The recipe meets every tolerance given (a CCT tolerance needs a Duv one, or a
+Δu′v′ one, beside it); the default, 0, reaches the target exactly. A level
+(--level) is still met exactly. The recipe's Δu′v′ row shows what it used,
+and a table shows what the tolerance buys: the optimum at none, half and
+all of the tolerance.`
 
 // lightsModel asserts the model's type.
 func lightsModel(m mixing.Model) (*mixing.Lights, error) {
@@ -367,7 +386,7 @@ func mixLights(e *env, mm mixing.Model, args []string) error {
 		if err := specio.WriteColumns(&b, []specio.Named{{Name: lightsAmountsLabel(am), Spectrum: spec}}); err != nil {
 			return err
 		}
-		if err := writeFileAtomic(out, b.Bytes()); err != nil {
+		if err := e.writeOut("--out", out, b.Bytes()); err != nil {
 			return err
 		}
 	}
@@ -450,6 +469,7 @@ func solveLights(e *env, mm mixing.Model, args []string) error {
 	}
 	var target, xyArg, level, addArg, prefer, obsName, maximize, minimize string
 	var cct, duv, addLevel float64
+	var tol mixing.LightTolerance
 	var asJSON bool
 	fs := flag.NewFlagSet("solve lights", flag.ContinueOnError)
 	fs.StringVar(&target, "target", "", "the target light: a spectral `FILE` or FILE:NAME (its chromaticity; see --level)")
@@ -464,6 +484,9 @@ func solveLights(e *env, mm mixing.Model, args []string) error {
 	fs.BoolVar(&asJSON, "json", false, "print the solve JSON ({\"recipes\": […]}) instead of text")
 	fs.StringVar(&maximize, "maximize", "", "rank first the mix at the target with the highest `QUALITY`: ra, rf, r9, efficacy or melanopic")
 	fs.StringVar(&minimize, "minimize", "", "rank first the mix at the target with the lowest `QUALITY`: melanopic")
+	fs.Float64Var(&tol.UVPrime, "tolerance-uv-prime", 0, "with a goal: colorimetric tolerance, Δu′v′: the goal's recipe may land up to `d` from the target (0: exactly on it)")
+	fs.Float64Var(&tol.CCT, "tolerance-cct", 0, "with a goal and --cct: the goal's recipe may differ from the target CCT by up to `K` kelvin")
+	fs.Float64Var(&tol.Duv, "tolerance-duv", 0, "with a goal and --cct: the goal's recipe may differ from the target Duv by up to `d`")
 	pos, err := parseFlags(solveLightsCommand, fs, e, args)
 	if err != nil {
 		return err
@@ -531,17 +554,12 @@ func solveLights(e *env, mm mixing.Model, args []string) error {
 			t.Y = c.Y * scale
 		}
 	case xyArg != "":
-		parts := strings.Split(xyArg, ",")
-		if len(parts) != 2 {
-			return usagef("--xy %s: want x,y", xyArg)
+		xy, err := parseXY(xyArg)
+		if err != nil {
+			return err
 		}
-		x, err1 := strconv.ParseFloat(strings.TrimSpace(parts[0]), 64)
-		y, err2 := strconv.ParseFloat(strings.TrimSpace(parts[1]), 64)
-		if err1 != nil || err2 != nil || !(x > 0 && y > 0 && x+y < 1) {
-			return usagef("--xy %s: want a chromaticity x,y with x > 0, y > 0, x + y < 1", xyArg)
-		}
-		t.XY = colorimetry.XY{X: x, Y: y}
-		what = fmt.Sprintf("x %.4f, y %.4f", x, y)
+		t.XY = xy
+		what = fmt.Sprintf("x %.4f, y %.4f", xy.X, xy.Y)
 	default:
 		xy, err := mixing.LightTargetCCT(obs, cct, duv)
 		if err != nil {
@@ -587,7 +605,10 @@ func solveLights(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return err
 	}
-	sol, err := m.SolveQuality(t, goal, opt)
+	if err := lightsToleranceFlags(tol, goal, cct != 0); err != nil {
+		return err
+	}
+	sol, err := m.SolveQualityWithin(t, goal, tol, opt)
 	if err != nil {
 		return err
 	}
@@ -595,7 +616,65 @@ func solveLights(e *env, mm mixing.Model, args []string) error {
 		return writeSolution(e, sol)
 	}
 	printLightsSolution(e.stdout, m, obs, t, what, addNote, sol)
+	printLightsTolerance(e.stdout, tol, sol)
 	return nil
+}
+
+// lightsToleranceFlags checks the tolerance flags of solve.
+func lightsToleranceFlags(tol mixing.LightTolerance, goal mixing.LightGoal, byCCT bool) error {
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"--tolerance-uv-prime", tol.UVPrime}, {"--tolerance-cct", tol.CCT}, {"--tolerance-duv", tol.Duv}} {
+		if !(f.v >= 0) || math.IsInf(f.v, 0) {
+			return usagef("%s %v: want zero or a positive tolerance", f.name, f.v)
+		}
+	}
+	if (tol.CCT > 0 || tol.Duv > 0) && !byCCT {
+		return usagef("--tolerance-cct and --tolerance-duv need the target as --cct K [--duv d]")
+	}
+	if tol.UVPrime == 0 && (tol.CCT > 0) != (tol.Duv > 0) {
+		return usagef("--tolerance-cct and --tolerance-duv come together (or beside --tolerance-uv-prime): one alone leaves the other unbounded")
+	}
+	if !tol.IsZero() && goal == mixing.GoalNone {
+		return usagef("a tolerance applies to the recipe of a goal: add --maximize or --minimize")
+	}
+	return nil
+}
+
+// printLightsTolerance prints what the tolerance of a goal's recipe buys,
+// if the solve has one.
+func printLightsTolerance(w io.Writer, tol mixing.LightTolerance, sol mixing.Solution) {
+	if len(sol.Recipes) == 0 {
+		return
+	}
+	pts, ok := sol.Recipes[0].Extra["tolerance_trade_off"].([]map[string]any)
+	if !ok || len(pts) == 0 {
+		return
+	}
+	num := func(v any, format string) string {
+		if f, ok := v.(float64); ok {
+			return fmt.Sprintf(format, f)
+		}
+		return "—"
+	}
+	fmt.Fprintf(w, "\nwhat the tolerance buys (recipe 1, %v; tolerance %v; the other recipes reach the target exactly):\n", sol.Recipes[0].Extra["strategy"], tol)
+	var tb table
+	tb.header("share", "Δu′v′", "CCT K", "Duv", "Y", "Ra", "R9", "Rf", "efficacy lm/W", "melanopic DER")
+	for _, p := range pts {
+		share := num(p["fraction"], "%.2g")
+		if r, _ := p["reachable"].(bool); !r {
+			tb.row(share, "out of reach", "", "", "", "", "", "", "", "")
+			continue
+		}
+		duv := num(p["duv"], "%+.4f")
+		if d, ok := p["duv"].(float64); ok && math.Abs(d) < 5e-5 {
+			duv = "0.0000" // a Duv that rounds to zero, without a sign
+		}
+		tb.row(share, num(p["delta_uv_prime"], "%.6f"), num(p["cct_kelvin"], "%.0f"), duv, num(p["Y"], "%.4g"),
+			num(p["ra"], "%.1f"), num(p["r9"], "%.1f"), num(p["rf"], "%.1f"), num(p["efficacy_lm_per_w"], "%.0f"), num(p["melanopic_der"], "%.3f"))
+	}
+	tb.write(w)
 }
 
 // lightsOneSpectrum resolves FILE or FILE:NAME to one spectrum.

@@ -479,7 +479,7 @@ func mixPigments(e *env, mm mixing.Model, args []string) error {
 		if err := specio.WriteColumns(&b, []specio.Named{{Name: "mix", Spectrum: r}}); err != nil {
 			return err
 		}
-		if err := writeFileAtomic(out, []byte(b.String())); err != nil {
+		if err := e.writeOut("--out", out, []byte(b.String())); err != nil {
 			return err
 		}
 	}
@@ -645,18 +645,18 @@ func oneSpectrum(e *env, flagName, arg, scale string) (spectrumIn, colorimetry.S
 func parseLab(s string) (colorimetry.Lab, error) {
 	f := strings.Split(s, ",")
 	if len(f) != 3 {
-		return colorimetry.Lab{}, usagef("--lab %s: want L,a,b", s)
+		return colorimetry.Lab{}, usagef("--lab %s: want L,a,b", shown(s))
 	}
 	var v [3]float64
 	for i, x := range f {
 		y, err := strconv.ParseFloat(strings.TrimSpace(x), 64)
 		if err != nil || math.IsNaN(y) || math.IsInf(y, 0) {
-			return colorimetry.Lab{}, usagef("--lab %s: %q is not a finite number", s, x)
+			return colorimetry.Lab{}, usagef("--lab %s: %q is not a finite number", shown(s), x)
 		}
 		v[i] = y
 	}
 	if v[0] < 0 || v[0] > 100 {
-		return colorimetry.Lab{}, usagef("--lab %s: L* must lie in 0–100", s)
+		return colorimetry.Lab{}, usagef("--lab %s: L* must lie in 0–100", shown(s))
 	}
 	return colorimetry.Lab{L: v[0], A: v[1], B: v[2]}, nil
 }

@@ -124,7 +124,7 @@ func runGreyBalance(e *env, args []string) error {
 			}
 			b.WriteString("\n")
 		}
-		if err := writeFileAtomic(out, []byte(b.String())); err != nil {
+		if err := e.writeOut("--out", out, []byte(b.String()), pos[0]); err != nil {
 			return err
 		}
 	}

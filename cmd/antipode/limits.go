@@ -255,7 +255,7 @@ func runWavelengths(e *env, args []string) error {
 		fmt.Fprintf(&b, "%g,%.2f,%.6g,%.6g\n", p.Nm, p.ComplementNm, p.PowerRatio, p.LuminanceRatio)
 	}
 	if out != "" {
-		return writeFileAtomic(out, b.Bytes())
+		return e.writeOut("--out", out, b.Bytes(), illum)
 	}
 	_, err = e.stdout.Write(b.Bytes())
 	return err

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"os"
 	"sort"
+	"strconv"
 	"strings"
 
 	"github.com/antipode-color/antipode/mixing"
@@ -177,12 +178,14 @@ func parseAmounts(s string) ([]mixing.Amount, error) {
 		if !ok || name == "" {
 			return nil, usagef("--amounts: %q is not name=value", part)
 		}
-		var v float64
-		if _, err := fmt.Sscanf(strings.TrimSpace(val), "%g", &v); err != nil || v != v || v > 1e300 || v < -1e300 {
-			return nil, usagef("--amounts: %s=%s is not a finite number", name, val)
+		// The whole value must be a number: fmt.Sscanf's %g stopped at
+		// the first character that was not and took "0.5abc" for 0.5.
+		v, err := strconv.ParseFloat(strings.TrimSpace(val), 64)
+		if err != nil || v != v || v > 1e300 || v < -1e300 {
+			return nil, usagef("--amounts: %s is not a finite number", shown(strings.TrimSpace(part)))
 		}
 		if seen[name] {
-			return nil, usagef("--amounts: %s given twice", name)
+			return nil, usagef("--amounts: %s given twice", shown(name))
 		}
 		seen[name] = true
 		out = append(out, mixing.Amount{Name: name, Value: v})

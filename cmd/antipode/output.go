@@ -34,9 +34,28 @@ func writeFileAtomic(path string, data []byte) error {
 		os.Remove(tmp)
 		return fmt.Errorf("%s: %w", path, err)
 	}
-	if err := os.Rename(tmp, path); err != nil {
+	if err := renameFile(tmp, path); err != nil {
 		os.Remove(tmp)
 		return fmt.Errorf("%s: %w", path, err)
 	}
 	return nil
+}
+
+// renameFile is os.Rename; tests replace it to make the last step of
+// writeFileAtomic fail.
+var renameFile = os.Rename
+
+// writeOut writes data to path for the flag flagName (writeFileAtomic),
+// refusing to replace the model file of mix and solve (e.modelPath) or any
+// of inputs (files or FILE:NAME arguments; "" and "-" are skipped).
+func (e *env) writeOut(flagName, path string, data []byte, inputs ...string) error {
+	for _, in := range append([]string{e.modelPath}, inputs...) {
+		if in == "" || in == "-" {
+			continue
+		}
+		if sameFile(path, in) || sameFile(path, fileOf(in)) {
+			return usagef("%s %s would replace the input file %s", flagName, path, fileOf(in))
+		}
+	}
+	return writeFileAtomic(path, data)
 }

@@ -121,6 +121,9 @@ type CGATSReader struct {
 	// MaxSamples is the largest grid, in samples, onto which irregularly
 	// spaced wavelengths may be resampled; zero means DefaultMaxSamples.
 	MaxSamples int
+	// MaxColumns is the largest number of fields in a data format; zero
+	// means DefaultMaxColumns.
+	MaxColumns int
 	// NeedSpectra makes a data set without spectral fields an error
 	// wrapping ErrNoSpectrum, naming the file and the line of its
 	// BEGIN_DATA_FORMAT. By default such a set yields samples with a zero
@@ -281,9 +284,10 @@ func (r *CGATSReader) Next() (Named, error) {
 			r.src.Options = r.Options
 			r.src.MaxLineBytes = r.MaxLineBytes
 			r.src.MaxSamples = r.MaxSamples
+			r.src.MaxColumns = r.MaxColumns
 		}
-		if r.MaxLineBytes < 0 || r.MaxSamples < 0 {
-			r.err = errors.New("specio: negative MaxLineBytes or MaxSamples")
+		if err := checkLimits(r.MaxLineBytes, r.MaxSamples, r.MaxColumns); err != nil {
+			r.err = err
 			return Named{}, r.err
 		}
 	}
@@ -483,6 +487,9 @@ func (r *CGATSReader) formatTokens(text string, ln int) error {
 			return nil
 		}
 		col := len(s.head.Format) + 1
+		if m := orDefault(r.src.MaxColumns, DefaultMaxColumns); col > m {
+			return r.src.errorf(ln, col, "", fmt.Errorf("%w: more than %d fields in the data format (MaxColumns)", ErrTooBig, m))
+		}
 		if u := strings.ToUpper(t); isStructural(u) {
 			return r.src.errorf(ln, col, t, fmt.Errorf("%w: %s inside the data format (BEGIN_DATA_FORMAT at line %d has no END_DATA_FORMAT)", ErrStructure, t, s.formatLine))
 		}

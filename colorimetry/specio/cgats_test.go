@@ -652,6 +652,10 @@ func TestWriteCGATSErrors(t *testing.T) {
 		{"structural keyword", []specio.CGATSSet{set([]specio.Keyword{{Name: "NUMBER_OF_SETS", Value: "3"}}, nil, ok)}, specio.ErrUnwritable},
 		{"line break in a value", []specio.CGATSSet{set([]specio.Keyword{{Name: "DESCRIPTOR", Value: "a\nb"}}, nil, ok)}, specio.ErrUnwritable},
 		{"line break in a name", []specio.CGATSSet{set(nil, nil, specio.Named{Name: "a\r\nb", Spectrum: s1})}, specio.ErrUnwritable},
+		// The reader takes a NUL byte for UTF-16 text, so the writer
+		// writes none: common practice (no source).
+		{"NUL in a name", []specio.CGATSSet{set(nil, nil, specio.Named{Name: "a\x00b", Spectrum: s1})}, specio.ErrUnwritable},
+		{"NUL in a value", []specio.CGATSSet{set([]specio.Keyword{{Name: "DESCRIPTOR", Value: "a\x00b"}}, nil, ok)}, specio.ErrUnwritable},
 		{"XYZ not a number", []specio.CGATSSet{set(nil, []string{"XYZ_X"}, specio.Named{Name: "a", Fields: map[string]string{"XYZ_X": "high"}})}, specio.ErrUnwritable},
 		{"field twice", []specio.CGATSSet{set(nil, []string{"SAMPLE_NAME", "SAMPLE_NAME"}, ok)}, specio.ErrUnwritable},
 		{"field name with a space", []specio.CGATSSet{set(nil, nil, specio.Named{Name: "a", Spectrum: s1, Fields: map[string]string{"coverage %": "5"}})}, specio.ErrUnwritable},

@@ -74,7 +74,7 @@ func NewCGATSSet(samples []Named, originator string, created time.Time, keywords
 // field of the format; and ErrUnwritable for a name that is not a CGATS
 // token (ASCII letters, digits and "_.-+/", starting with a letter or
 // underscore), a structural keyword among the keywords, a field named
-// twice, a line break in a value, an XYZ or LAB value that is not a
+// twice, a line break or NUL byte in a value, an XYZ or LAB value that is not a
 // number, or an identifier that would not read back as one. Errors from w
 // are returned as they are.
 func WriteCGATS(w io.Writer, sets ...CGATSSet) error {
@@ -114,7 +114,7 @@ func WriteCGATS(w io.Writer, sets ...CGATSSet) error {
 // reads back as the file identifier.
 func checkIdentifier(ident string) error {
 	name, _, text, ok := splitKeyword(ident)
-	if !ok || text != ident || strings.ContainsAny(ident, "\t\r\n") {
+	if !ok || text != ident || strings.ContainsAny(ident, "\t\r\n\x00") {
 		return fmt.Errorf("specio: identifier %q: %w", ident, ErrUnwritable)
 	}
 	if w := strings.ToUpper(name); isStructural(w) || isStandardKeyword(w) {
@@ -140,8 +140,8 @@ func (p *cgatsPlan) make(set *CGATSSet, k int) error {
 		if !validName(kw.Name) || isStructural(strings.ToUpper(kw.Name)) {
 			return fmt.Errorf("%s: %w", where("keyword %q", kw.Name), ErrUnwritable)
 		}
-		if strings.ContainsAny(kw.Value, "\r\n") {
-			return fmt.Errorf("%s: %w", where("keyword %s: value %q holds a line break", kw.Name, kw.Value), ErrUnwritable)
+		if strings.ContainsAny(kw.Value, "\r\n\x00") {
+			return fmt.Errorf("%s: %w", where("keyword %s: value %q holds a line break or NUL byte", kw.Name, kw.Value), ErrUnwritable)
 		}
 	}
 	spectral := 0
@@ -234,8 +234,8 @@ func (p *cgatsPlan) make(set *CGATSSet, k int) error {
 			if err != nil {
 				return fmt.Errorf("%s: %w", where("sample %d (%q)", i+1, s.Name), err)
 			}
-			if strings.ContainsAny(v, "\r\n") {
-				return fmt.Errorf("%s: %w", where("sample %d (%q), field %s: value %q holds a line break", i+1, s.Name, name, v), ErrUnwritable)
+			if strings.ContainsAny(v, "\r\n\x00") {
+				return fmt.Errorf("%s: %w", where("sample %d (%q), field %s: value %q holds a line break or NUL byte", i+1, s.Name, name, v), ErrUnwritable)
 			}
 			if isColorimetric(name) && !isNumber(v, true) {
 				return fmt.Errorf("%s: %w", where("sample %d (%q), field %s: value %q is not a number", i+1, s.Name, name, v), ErrUnwritable)

@@ -46,15 +46,24 @@
 //   - Fields may be quoted with double quotes, and a doubled quote inside
 //     a quoted field stands for one quote (RFC 4180 §2). A quoted field
 //     cannot span lines. Unquoted fields are trimmed of white space.
+//   - Text is UTF-8 (or ASCII). A UTF-16 byte order mark or a NUL byte
+//     is an error wrapping ErrEncoding ("UTF-16 is not supported; save as
+//     UTF-8").
 //   - LF and CRLF line endings are accepted; a UTF-8 byte order mark at
-//     the start is skipped. Blank lines, lines of empty fields only (as
+//     the start is skipped. A carriage return inside a line (CR-only line
+//     endings) is an error wrapping ErrLineEnding. Blank lines, lines of empty fields only (as
 //     spreadsheets write for empty rows) and lines whose first non-blank
 //     character is '#' are skipped.
 //   - Empty fields at the end of a line beyond the width of the first
 //     record are ignored (spreadsheets write trailing separators); any
 //     other empty value is an error.
 //   - A line may hold at most Reader.MaxLineBytes bytes (16 MiB by
-//     default), so a file without line breaks cannot exhaust memory.
+//     default), so a file without line breaks cannot exhaust memory, and
+//     at most Reader.MaxColumns fields (65 536). A columns-layout table,
+//     which is read whole, may hold at most Reader.MaxRows data rows
+//     (65 536) and Reader.MaxValues values (2²⁵, 256 MiB); the rows
+//     layout streams and has no row limit. Beyond a limit the error wraps
+//     ErrTooBig. Spectrum names in a columns-layout header must differ.
 //
 // Wavelengths must be positive, finite, strictly increasing and unique;
 // values must be finite; a spectrum needs at least three samples.

@@ -41,8 +41,17 @@ var (
 	// none at all, an empty spectrum, or spectra on different grids.
 	ErrGrid = errors.New("spectra do not share one grid")
 	// ErrName reports a spectrum name that WriteColumns cannot write
-	// because it contains a line break.
-	ErrName = errors.New("name contains a line break")
+	// because it contains a line break or a NUL byte, or is given twice.
+	ErrName = errors.New("name cannot be written (a line break or NUL byte, or a name given twice)")
+	// ErrEncoding reports text that is not UTF-8 or ASCII: a UTF-16 byte
+	// order mark or a NUL byte (UTF-16 text, or a binary file).
+	ErrEncoding = errors.New("UTF-16 is not supported; save as UTF-8")
+	// ErrLineEnding reports a carriage return inside a line: a file with
+	// CR-only line endings (as written by Mac OS before version X).
+	ErrLineEnding = errors.New("CR-only line endings are not supported; save with LF or CRLF line endings")
+	// ErrTooBig reports a file beyond one of the Reader's size limits
+	// (MaxColumns, MaxRows, MaxValues).
+	ErrTooBig = errors.New("file exceeds a size limit")
 )
 
 // ParseError locates a data problem in a spectral file. Line and Column

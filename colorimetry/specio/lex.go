@@ -19,6 +19,12 @@ type quoteError struct{ column int }
 
 func (e *quoteError) Error() string { return fmt.Sprintf("field %d: %v", e.column, ErrQuote) }
 
+// wideError is returned by splitFields for a line of more than max
+// fields.
+type wideError struct{ max int }
+
+func (e *wideError) Error() string { return fmt.Sprintf("more than %d fields", e.max) }
+
 // isBlank reports whether c is a space or tab other than the separator.
 func isBlank(c, sep byte) bool { return (c == ' ' || c == '\t') && c != sep }
 
@@ -29,11 +35,15 @@ func isBlank(c, sep byte) bool { return (c == ' ' || c == '\t') && c != sep }
 // end of the line; a doubled quote inside it stands for one quote
 // (RFC 4180 §2 rule 7), and any other quote is kept as it is. Quotes
 // inside unquoted fields are kept as they are. The fields are substrings
-// of line except where a doubled quote had to be collapsed.
-func splitFields(dst []string, line string, sep byte) ([]string, error) {
+// of line except where a doubled quote had to be collapsed. A line of more
+// than maxFields fields gives a *wideError.
+func splitFields(dst []string, line string, sep byte, maxFields int) ([]string, error) {
 	dst = dst[:0]
 	i := 0
 	for {
+		if len(dst) >= maxFields {
+			return dst, &wideError{max: maxFields}
+		}
 		j := i
 		for j < len(line) && isBlank(line[j], sep) {
 			j++

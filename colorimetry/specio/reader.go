@@ -50,6 +50,17 @@ const (
 	// DefaultMaxSamples is the default largest grid onto which irregular
 	// wavelengths are resampled, 2¹⁶ samples: 360 nm to 65 µm at 1 nm.
 	DefaultMaxSamples = 1 << 16
+	// DefaultMaxColumns is the default largest number of fields on one
+	// line, 2¹⁶: 360–830 nm at 0.01 nm is 47 001 wavelength columns.
+	DefaultMaxColumns = 1 << 16
+	// DefaultMaxRows is the default largest number of data rows (one per
+	// wavelength) of a columns-layout table, 2¹⁶. The rows layout streams
+	// one spectrum per line and has no row limit.
+	DefaultMaxRows = 1 << 16
+	// DefaultMaxValues is the default largest number of values a
+	// columns-layout table holds in memory, 2²⁵ (256 MiB of float64):
+	// 4096 spectra of 8192 samples.
+	DefaultMaxValues = 1 << 25
 )
 
 // Named is one spectrum read from a file, with its name and place.
@@ -125,6 +136,15 @@ type Reader struct {
 	// MaxSamples is the largest grid, in samples, onto which irregularly
 	// spaced wavelengths may be resampled; zero means DefaultMaxSamples.
 	MaxSamples int
+	// MaxColumns is the largest number of fields on one line (in CGATS,
+	// of fields in a data format); zero means DefaultMaxColumns.
+	MaxColumns int
+	// MaxRows is the largest number of data rows of a columns-layout
+	// table, which is read whole; zero means DefaultMaxRows.
+	MaxRows int
+	// MaxValues is the largest number of values of a columns-layout
+	// table (data rows × spectrum columns); zero means DefaultMaxValues.
+	MaxValues int
 
 	file    string
 	br      *bufio.Reader
@@ -246,6 +266,24 @@ func (r *Reader) Next() (Named, error) {
 	return n, nil
 }
 
+// orDefault returns v, or def when v is zero.
+func orDefault(v, def int) int {
+	if v == 0 {
+		return def
+	}
+	return v
+}
+
+// checkLimits returns an error when a limit is negative.
+func checkLimits(v ...int) error {
+	for _, x := range v {
+		if x < 0 {
+			return errors.New("specio: negative MaxLineBytes, MaxSamples, MaxColumns, MaxRows or MaxValues")
+		}
+	}
+	return nil
+}
+
 // errorf returns a *ParseError at the given place.
 func (r *Reader) errorf(line, col int, field string, err error) *ParseError {
 	return &ParseError{File: r.file, Line: line, Column: col, Field: field, Err: err}
@@ -263,8 +301,8 @@ func (r *Reader) start() error {
 	if r.Layout < LayoutAuto || r.Layout > LayoutRows {
 		return fmt.Errorf("specio: unknown layout %v", r.Layout)
 	}
-	if r.MaxLineBytes < 0 || r.MaxSamples < 0 {
-		return errors.New("specio: negative MaxLineBytes or MaxSamples")
+	if err := checkLimits(r.MaxLineBytes, r.MaxSamples, r.MaxColumns, r.MaxRows, r.MaxValues); err != nil {
+		return err
 	}
 	if r.Layout == LayoutAuto && r.startCGATS() {
 		return nil
@@ -370,12 +408,17 @@ func (r *Reader) readRecord() (record, error) {
 			r.sep = detectSeparator(line)
 		}
 		r.decimalComma = r.sep != ',' // a decimal comma only where it cannot separate fields
-		fields, err := splitFields(r.fields, line, r.sep)
+		fields, err := splitFields(r.fields, line, r.sep, orDefault(r.MaxColumns, DefaultMaxColumns))
 		r.fields = fields
 		if err != nil {
 			var qe *quoteError
 			if errors.As(err, &qe) {
 				return record{line: r.line}, r.errorf(r.line, qe.column, "", ErrQuote)
+			}
+			var we *wideError
+			if errors.As(err, &we) {
+				r.err = r.errorf(r.line, we.max+1, "", fmt.Errorf("%w: more than %d fields on a line (MaxColumns)", ErrTooBig, we.max))
+				return record{line: r.line}, r.err
 			}
 			return record{line: r.line}, r.errorf(r.line, 0, "", err)
 		}
@@ -404,6 +447,9 @@ func (r *Reader) readLine() (string, error) {
 	var line []byte
 	for {
 		chunk, err := r.br.ReadSlice('\n')
+		if e := r.checkText(chunk, len(r.buf) == 0); e != nil {
+			return "", e
+		}
 		if err == bufio.ErrBufferFull {
 			r.buf = append(r.buf, chunk...)
 			if len(r.buf) > limit+2 { // +2 leaves room for "\r\n"
@@ -427,6 +473,10 @@ func (r *Reader) readLine() (string, error) {
 	}
 	line = bytes.TrimSuffix(line, []byte{'\n'})
 	line = bytes.TrimSuffix(line, []byte{'\r'})
+	if bytes.IndexByte(line, '\r') >= 0 {
+		r.err = r.errorf(r.line+1, 0, "", ErrLineEnding)
+		return "", r.err
+	}
 	if len(line) > limit {
 		return "", tooLong()
 	}
@@ -435,6 +485,37 @@ func (r *Reader) readLine() (string, error) {
 		line = bytes.TrimPrefix(line, []byte(bom))
 	}
 	return string(line), nil
+}
+
+// checkText returns a sticky *ParseError for a chunk of the next line
+// that is not UTF-8 or ASCII text with LF or CRLF line endings: a UTF-16
+// byte order mark at the start of the file (FF FE or FE FF, Unicode
+// Standard §23.8, from memory), a NUL byte anywhere (UTF-16 text, or a
+// binary file), or a carriage return followed by anything but a line feed
+// (CR-only line endings). A CR at the very end of the chunk is left for
+// readLine to judge on the whole line. lineStart says whether chunk
+// starts a line.
+func (r *Reader) checkText(chunk []byte, lineStart bool) error {
+	if lineStart && r.line == 0 && (bytes.HasPrefix(chunk, []byte{0xff, 0xfe}) || bytes.HasPrefix(chunk, []byte{0xfe, 0xff})) {
+		r.err = r.errorf(1, 0, "", fmt.Errorf("UTF-16 byte order mark: %w", ErrEncoding))
+		return r.err
+	}
+	if bytes.IndexByte(chunk, 0) >= 0 {
+		r.err = r.errorf(r.line+1, 0, "", fmt.Errorf("NUL byte (binary data or UTF-16 text): %w", ErrEncoding))
+		return r.err
+	}
+	for i := bytes.IndexByte(chunk, '\r'); i >= 0 && i+1 < len(chunk); {
+		if chunk[i+1] != '\n' {
+			r.err = r.errorf(r.line+1, 0, "", ErrLineEnding)
+			return r.err
+		}
+		j := bytes.IndexByte(chunk[i+1:], '\r')
+		if j < 0 {
+			break
+		}
+		i += 1 + j
+	}
+	return nil
 }
 
 // readRowsHeader reads the header of the rows layout: the name column, then
@@ -576,13 +657,19 @@ func (r *Reader) readTable(first record) error {
 	if !headerless && first.fields[0] != "" {
 		fieldNames[0] = strings.Clone(first.fields[0])
 	}
+	seen := make(map[string]int, width)
 	for c := 1; c < width; c++ {
 		names[c] = "column " + strconv.Itoa(c+1)
 		if !headerless && first.fields[c] != "" {
 			names[c] = strings.Clone(first.fields[c])
 		}
 		fieldNames[c] = names[c]
+		if prev, dup := seen[names[c]]; dup {
+			return r.errorf(first.line, c+1, names[c], fmt.Errorf("%w: spectrum name appears twice (columns %d and %d)", ErrHeader, prev, c+1))
+		}
+		seen[names[c]] = c + 1
 	}
+	maxRows := min(orDefault(r.MaxRows, DefaultMaxRows), orDefault(r.MaxValues, DefaultMaxValues)/(width-1))
 	var nm []float64
 	var lines []int
 	cols := make([][]float64, width)
@@ -598,6 +685,10 @@ func (r *Reader) readTable(first record) error {
 		}
 		if w <= 0 {
 			return r.errorf(rec.line, 1, fieldNames[0], fmt.Errorf("%g nm: %w", w, ErrWavelength))
+		}
+		if len(nm) >= maxRows {
+			return r.errorf(rec.line, 0, "", fmt.Errorf("%w: more than %d data rows of %d spectra (MaxRows %d, MaxValues %d)",
+				ErrTooBig, maxRows, width-1, orDefault(r.MaxRows, DefaultMaxRows), orDefault(r.MaxValues, DefaultMaxValues)))
 		}
 		for c := 1; c < width; c++ {
 			v, err := parseNumber(f[c], r.decimalComma)

@@ -21,21 +21,29 @@ import (
 //
 // It returns an error wrapping ErrGrid when spectra is empty, holds an
 // empty spectrum or spectra on different grids (colorimetry.Grid.Equal),
-// and ErrName when a name contains a line break; nothing is written then.
+// and ErrName when a name contains a line break or a NUL byte (which the
+// reader takes for UTF-16), or is given twice (the
+// reader refuses a header that names two spectra alike); nothing is
+// written then.
 // Errors from w are returned as they are.
 func WriteColumns(w io.Writer, spectra []Named) error {
 	if len(spectra) == 0 {
 		return fmt.Errorf("specio: nothing to write: %w", ErrGrid)
 	}
 	g := spectra[0].Spectrum.Grid()
+	seen := make(map[string]int, len(spectra))
 	for i, s := range spectra {
+		if j, dup := seen[s.Name]; dup && s.Name != "" {
+			return fmt.Errorf("specio: spectrum %d (%q) has the name of spectrum %d: %w", i+1, s.Name, j, ErrName)
+		}
+		seen[s.Name] = i + 1
 		if s.Spectrum.IsZero() {
 			return fmt.Errorf("specio: spectrum %d (%q) is empty: %w", i+1, s.Name, ErrGrid)
 		}
 		if sg := s.Spectrum.Grid(); !sg.Equal(g) {
 			return fmt.Errorf("specio: spectrum %d (%q) is on %v, spectrum 1 (%q) on %v: %w", i+1, s.Name, sg, spectra[0].Name, g, ErrGrid)
 		}
-		if strings.ContainsAny(s.Name, "\r\n") {
+		if strings.ContainsAny(s.Name, "\r\n\x00") {
 			return fmt.Errorf("specio: spectrum %d (%q): %w", i+1, s.Name, ErrName)
 		}
 	}

@@ -80,6 +80,10 @@ func TestWriteColumnsErrors(t *testing.T) {
 		{name: "other step", spectra: []specio.Named{a, onGrid(t, "b", 400, 5, 1, 2, 3)}, sentinel: specio.ErrGrid},
 		{name: "other length", spectra: []specio.Named{a, onGrid(t, "b", 400, 10, 1, 2, 3, 4)}, sentinel: specio.ErrGrid},
 		{name: "line break in name", spectra: []specio.Named{a, onGrid(t, "b\nc", 400, 10, 1, 2, 3)}, sentinel: specio.ErrName},
+		// The reader refuses a header naming two spectra alike, so the
+		// writer does not write one: common practice (no source).
+		{name: "NUL in name", spectra: []specio.Named{a, onGrid(t, "b\x00", 400, 10, 1, 2, 3)}, sentinel: specio.ErrName},
+		{name: "name twice", spectra: []specio.Named{a, onGrid(t, "b", 400, 10, 1, 2, 3), onGrid(t, "a", 400, 10, 4, 5, 6)}, sentinel: specio.ErrName},
 	} {
 		var b bytes.Buffer
 		err := specio.WriteColumns(&b, tc.spectra)
@@ -134,7 +138,8 @@ func TestWriteReadRoundTrip(t *testing.T) {
 		}
 		n := rapid.IntRange(3, 60).Draw(rt, "n")
 		k := rapid.IntRange(1, 5).Draw(rt, "spectra")
-		name := rapid.StringN(1, 12, -1).Filter(func(s string) bool { return !strings.ContainsAny(s, "\r\n") })
+		name := rapid.StringN(1, 12, -1).Filter(func(s string) bool { return !strings.ContainsAny(s, "\r\n\x00") })
+		names := map[string]bool{} // names must differ (see TestWriteColumnsErrors)
 		value := rapid.OneOf(rapid.Float64(), rapid.Float64Range(-0.05, 1.05), rapid.Float64Range(0, 100))
 		in := make([]specio.Named, k)
 		for j := range in {
@@ -144,7 +149,9 @@ func TestWriteReadRoundTrip(t *testing.T) {
 			if err != nil {
 				rt.Fatal(err)
 			}
-			in[j] = specio.Named{Name: name.Draw(rt, "name"), Spectrum: s}
+			nm := name.Filter(func(s string) bool { return !names[s] }).Draw(rt, "name")
+			names[nm] = true
+			in[j] = specio.Named{Name: nm, Spectrum: s}
 		}
 		var b bytes.Buffer
 		if err := specio.WriteColumns(&b, in); err != nil {

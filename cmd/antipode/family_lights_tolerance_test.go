@@ -1,0 +1,86 @@
+package main
+
+import (
+	"encoding/json"
+	"strings"
+	"testing"
+)
+
+// TestSolveTolerance runs solve with a quality goal and a target-white
+// tolerance on the demo rig: the goal's recipe lands within the tolerance
+// (Δu′v′ ≤ tol + 1e-9; CCT and Duv within theirs), is no worse by its goal
+// than the exact solve's (common practice (no source): an optimum over a
+// larger set is no worse), and carries the tolerance and its three-point
+// trade-off; the table shows what the tolerance buys; bad flags are usage
+// errors (exit 2).
+func TestSolveTolerance(t *testing.T) {
+	t.Parallel()
+	model, _ := lightsFitDemo(t)
+	solve := func(args ...string) []map[string]any {
+		t.Helper()
+		code, out, errs := runCLI(t, "", append([]string{"solve", model, "--json"}, args...)...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, errs)
+		}
+		var sol struct {
+			Recipes []map[string]any `json:"recipes"`
+		}
+		if err := json.Unmarshal([]byte(out), &sol); err != nil {
+			t.Fatal(err)
+		}
+		return sol.Recipes
+	}
+	exact := solve("--cct", "4000", "--maximize", "efficacy")[0]
+	for _, r := range solve("--cct", "4000", "--maximize", "efficacy") {
+		if _, ok := r["tolerance_trade_off"]; !ok || r["tolerance_trade_off"] != nil || r["tolerance"] != nil {
+			t.Errorf("exact solve: recipe %v: tolerance keys %v, %v, want null", r["strategy"], r["tolerance"], r["tolerance_trade_off"])
+		}
+	}
+	got := solve("--cct", "4000", "--maximize", "efficacy", "--tolerance-uv-prime", "0.002")
+	first := got[0]
+	if d := first["delta_uv_prime"].(float64); d > 0.002+1e-9 {
+		t.Errorf("Δu′v′ %g beyond the tolerance 0.002", d)
+	}
+	if e, x := first["efficacy_lm_per_w"].(float64), exact["efficacy_lm_per_w"].(float64); e < x-1e-9*x {
+		t.Errorf("efficacy %g within the tolerance, worse than the exact %g", e, x)
+	}
+	if tol, ok := first["tolerance"].(map[string]any); !ok || tol["uv_prime"] != 0.002 || tol["cct_kelvin"] != nil {
+		t.Errorf("tolerance key %v", first["tolerance"])
+	}
+	if pts, ok := first["tolerance_trade_off"].([]any); !ok || len(pts) != 3 {
+		t.Errorf("tolerance_trade_off %v, want 3 points", first["tolerance_trade_off"])
+	}
+	for _, r := range got[1:] {
+		if d := r["delta_uv_prime"].(float64); d > 1e-6 {
+			t.Errorf("recipe %v moved off the target: Δu′v′ %g", r["strategy"], d)
+		}
+	}
+	// CCT and Duv tolerances: about the target's own CCT and Duv (Ohno's
+	// method; 1e-7 of the temperature, its stated accuracy).
+	cb := solve("--cct", "3500", "--duv", "0.001", "--maximize", "melanopic", "--tolerance-cct", "100", "--tolerance-duv", "0.002")[0]
+	if k := cb["cct_kelvin"].(float64); k < 3400-3500e-7 || k > 3600+3500e-7 {
+		t.Errorf("CCT %g K beyond 3500 ± 100 K", k)
+	}
+	if d := cb["duv"].(float64); d < -0.001-1e-9 || d > 0.003+1e-9 {
+		t.Errorf("Duv %g beyond 0.001 ± 0.002", d)
+	}
+	code, out, errs := runCLI(t, "", "solve", model, "--cct", "4000", "--maximize", "ra", "--tolerance-uv-prime", "0.002")
+	if code != 0 || !strings.Contains(out, "what the tolerance buys (recipe 1, max Ra; tolerance Δu′v′ ≤ 0.002") {
+		t.Errorf("exit %d, table output lacks the tolerance table:\n%s%s", code, out, errs)
+	}
+	for _, bad := range [][]string{
+		{"--cct", "4000", "--maximize", "ra", "--tolerance-uv-prime", "-0.001"},
+		{"--cct", "4000", "--tolerance-uv-prime", "0.002"},                                              // no goal
+		{"--xy", "0.38,0.38", "--maximize", "ra", "--tolerance-cct", "100", "--tolerance-duv", "0.002"}, // not --cct
+		{"--cct", "4000", "--maximize", "ra", "--tolerance-cct", "100"},                                 // CCT alone
+		{"--cct", "4000", "--maximize", "ra", "--tolerance-duv", "NaN"},
+	} {
+		if code, _, _ := runCLI(t, "", append([]string{"solve", model}, bad...)...); code != 2 {
+			t.Errorf("%v: exit %d, want 2 (usage)", bad, code)
+		}
+	}
+	code, help, _ := runCLI(t, "", "solve", model, "--help")
+	if code != 0 || !strings.Contains(help, "--tolerance-uv-prime") || !strings.Contains(help, "--tolerance-cct") {
+		t.Errorf("solve --help on a lights model should explain the tolerances:\n%s", help)
+	}
+}
