@@ -429,7 +429,7 @@ func solveDyes(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		var ce *mixing.ConvergenceError
 		if errors.As(err, &ce) {
-			return fmt.Errorf("%s: %v; best concentrations found: %s", list[0].place(), err, dyeAmountList(m.Names(), ce.Best))
+			return fmt.Errorf("%s: %v; best concentrations found: %s", list[0].place(), err, amountList(m.Names(), ce.Best, "%.5g"))
 		}
 		return fmt.Errorf("%s: %w", list[0].place(), err)
 	}
@@ -472,31 +472,8 @@ func solveDyes(e *env, mm mixing.Model, args []string) error {
 		t.row(row...)
 	}
 	t.write(e.stdout)
-	seen := map[string]bool{}
-	var warns []string
-	for _, r := range sol.Recipes {
-		for _, w := range r.Warnings {
-			if !seen[w] {
-				seen[w] = true
-				warns = append(warns, w)
-			}
-		}
-	}
-	if len(warns) > 0 {
-		fmt.Fprintf(e.stdout, "\nwarnings:\n  %s\n", joinLines(warns))
-	}
+	printRecipeWarnings(e.stdout, sol)
 	return nil
-}
-
-// dyeAmountList formats concentrations by dye name.
-func dyeAmountList(names []string, c []float64) string {
-	parts := make([]string, 0, len(c))
-	for i, v := range c {
-		if i < len(names) {
-			parts = append(parts, fmt.Sprintf("%s=%.5g", names[i], v))
-		}
-	}
-	return strings.Join(parts, ",")
 }
 
 // dyeUnit returns the unit or a placeholder word for none.

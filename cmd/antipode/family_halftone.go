@@ -547,7 +547,7 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 		var ce *mixing.ConvergenceError
 		switch {
 		case errors.As(err, &ce):
-			return fmt.Errorf("%s: %v; best coverages found: %s", what, err, htList(m.Inks(), ce.Best))
+			return fmt.Errorf("%s: %v; best coverages found: %s", what, err, amountList(m.Inks(), ce.Best, "%.4f"))
 		case errors.Is(err, mixing.ErrUnknownInk):
 			return usagef("%v", err)
 		case strings.Contains(err.Error(), "coverage"):
@@ -604,31 +604,8 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 			r.Extra["L"], r.Extra["a"], r.Extra["b"], strings.Join(parts, ", "))
 	}
 	fmt.Fprintln(e.stdout)
-	seen := map[string]bool{}
-	var all []string
-	for _, r := range sol.Recipes {
-		for _, w := range r.Warnings {
-			if !seen[w] {
-				seen[w] = true
-				all = append(all, w)
-			}
-		}
-	}
-	if len(all) > 0 {
-		fmt.Fprintf(e.stdout, "\nwarnings:\n  %s\n", joinLines(all))
-	}
+	printRecipeWarnings(e.stdout, sol)
 	return nil
-}
-
-// htList formats coverages by ink name.
-func htList(inks []string, c []float64) string {
-	parts := make([]string, 0, len(c))
-	for i, v := range c {
-		if i < len(inks) {
-			parts = append(parts, fmt.Sprintf("%s=%.4f", inks[i], v))
-		}
-	}
-	return strings.Join(parts, ",")
 }
 
 // htPlot draws coverages (0–1) on a line of width+1 cells for 0–100 %:

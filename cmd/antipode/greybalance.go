@@ -100,7 +100,7 @@ func runGreyBalance(e *env, args []string) error {
 		var ce *mixing.ConvergenceError
 		switch {
 		case errors.As(err, &ce):
-			return fmt.Errorf("%s: %v; best coverages found: %s", pos[0], err, htList(m.Inks(), ce.Best))
+			return fmt.Errorf("%s: %v; best coverages found: %s", pos[0], err, amountList(m.Inks(), ce.Best, "%.4f"))
 		case errors.Is(err, mixing.ErrUnknownInk), strings.Contains(err.Error(), "inks"), strings.Contains(err.Error(), "named twice"):
 			return usagef("--inks: %v", err)
 		}

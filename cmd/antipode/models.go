@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"io"
 	"os"
 	"sort"
 	"strconv"
@@ -252,4 +253,34 @@ func sameFile(a, b string) bool {
 	fa, err1 := os.Stat(a)
 	fb, err2 := os.Stat(b)
 	return err1 == nil && err2 == nil && os.SameFile(fa, fb)
+}
+
+// printRecipeWarnings prints the distinct warnings of a solution's recipes,
+// once each, as the closing "warnings:" block of a solve.
+func printRecipeWarnings(w io.Writer, sol mixing.Solution) {
+	seen := map[string]bool{}
+	var all []string
+	for _, r := range sol.Recipes {
+		for _, wn := range r.Warnings {
+			if !seen[wn] {
+				seen[wn] = true
+				all = append(all, wn)
+			}
+		}
+	}
+	if len(all) > 0 {
+		fmt.Fprintf(w, "\nwarnings:\n  %s\n", joinLines(all))
+	}
+}
+
+// amountList formats values by name, "name=value,…", each value with
+// format (for the best point of a solve that did not converge).
+func amountList(names []string, v []float64, format string) string {
+	parts := make([]string, 0, len(v))
+	for i, x := range v {
+		if i < len(names) {
+			parts = append(parts, names[i]+"="+fmt.Sprintf(format, x))
+		}
+	}
+	return strings.Join(parts, ",")
 }
