@@ -334,3 +334,43 @@ func TestOverflowCases(t *testing.T) {
 		}
 	}
 }
+
+// TestRobertsonContinuity checks that Robertson's method has no jump
+// where it passes from one pair of isotemperature lines to the next: its
+// reciprocal temperature is interpolated linearly between adjacent lines
+// (Robertson 1968), so the CCT is continuous in u, v. Around each line of
+// the table (10–575 MK⁻¹, near T = 10⁶/mired), chromaticities on the
+// normal of the locus at Duv −0.02, 0 and +0.02 are swept over ±0.5 % in
+// steps of 5e-5·T; the CCT may change by at most 2 steps per step (the
+// method's slope dCCT/dT stays within a few per cent of 1), so a jump of
+// a third of the method's error (0.05 MK⁻¹, 3e-4·T at 6500 K) would show.
+func TestRobertsonContinuity(t *testing.T) {
+	t.Parallel()
+	table, err := colorimetry.NewPlanckianTable(cie.CIE1931(), colorimetry.C2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mireds := []float64{10, 20, 30, 40, 50, 60, 70, 80, 90, 100, 125, 150, 175, 200, 225, 250, 275,
+		300, 325, 350, 375, 400, 425, 450, 475, 500, 525, 550, 575} // Robertson 1968, Table 1 (from memory)
+	for _, m := range mireds {
+		t0 := 1e6 / m
+		step := 5e-5 * t0
+		for _, duv := range []float64{-0.02, 0, 0.02} {
+			prev := math.NaN()
+			for k := t0 * 0.995; k <= math.Min(t0*1.005, colorimetry.CCTMax); k += step {
+				uv, err := table.UV(k, duv)
+				if err != nil {
+					t.Fatal(err)
+				}
+				c, err := table.CCT(uv, colorimetry.CCTRobertson)
+				if err != nil {
+					t.Fatalf("%.3f K, Duv %g: %v", k, duv, err)
+				}
+				if d := math.Abs(c.Kelvin - prev); d > 2*step {
+					t.Fatalf("near %g MK⁻¹, Duv %g: the CCT jumps by %.4f K (%.4f → %.4f) over a step of %.4f K", m, duv, d, prev, c.Kelvin, step)
+				}
+				prev = c.Kelvin
+			}
+		}
+	}
+}

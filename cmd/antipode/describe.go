@@ -493,6 +493,9 @@ func (d *describer) describe(in spectrumIn) (describeRow, error) {
 			return r, fmt.Errorf("%s: the light has no luminance (Y = 0)", where)
 		}
 		norm = 100 / c.Y
+		if d := c.Scale(norm); !d.Finite() {
+			return r, fmt.Errorf("%s: the light's luminance Y = %g is too small to scale to Y = 100", where, c.Y)
+		}
 		c = c.Scale(norm)
 	}
 	r.X, r.Y, r.Z = c.X, c.Y, c.Z

@@ -11,8 +11,9 @@ import (
 	"unicode/utf16"
 )
 
-// hostileUTF16 encodes s as UTF-16LE, with a byte order mark when bom is
-// set (U+FEFF; Unicode Standard §23.8, from memory).
+// hostileUTF16 encodes s as UTF-16 (big- or little-endian), with a byte
+// order mark when bom is set (U+FEFF; Unicode Standard §23.8, from
+// memory).
 func hostileUTF16(s string, bigEndian, bom bool) string {
 	u := utf16.Encode([]rune(s))
 	if bom {
@@ -82,6 +83,10 @@ func TestDescribeHostileFiles(t *testing.T) {
 		// 1e308 as percent reflectance: interpolating 20 nm data to 1 nm
 		// overflows.
 		{name: "overflow-reflectance.csv", content: hostileGrid("1e308"), place: `:1: `, want: "overflows"},
+		// A subnormal light scales to Y = 100 by a factor beyond the
+		// float64 range: +Inf in the table and a JSON failure before.
+		{name: "subnormal-light.csv", content: hostileGrid("5e-324"), args: []string{"--as", "light"}, place: `:1: `, want: "too small to scale"},
+		{name: "subnormal-light-json.csv", content: hostileGrid("5e-324"), args: []string{"--as", "light", "--json"}, place: `:1: `, want: "too small to scale"},
 		{name: "overflow-light-json.csv", content: hostileGrid("1e308"), args: []string{"--as", "light", "--json"}, place: `:1: `, want: "overflow"},
 	} {
 		path := filepath.Join(t.TempDir(), tc.name)

@@ -198,3 +198,15 @@ func TestOutputRenameFails(t *testing.T) {
 		}
 	}
 }
+
+// TestDemoOutNotAFolder checks that demo --out refuses an existing file
+// (it writes a folder): exit 2, the file unchanged, one line on stderr.
+// Common practice (no source).
+func TestDemoOutNotAFolder(t *testing.T) {
+	t.Parallel()
+	path := writeTemp(t, "notes.txt", "keep me\n")
+	code, _, errs := runCLI(t, "", "demo", "--out", path)
+	if b, _ := os.ReadFile(path); code != exitBad || string(b) != "keep me\n" || strings.Count(errs, "\n") != 1 {
+		t.Errorf("exit %d, file %q, stderr %q", code, b, errs)
+	}
+}
