@@ -3,6 +3,7 @@ package specio_test
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"io"
 	"math"
 	"strings"
@@ -212,5 +213,26 @@ func TestNegativeLimits(t *testing.T) {
 	c.MaxColumns = -1
 	if _, err := c.Next(); err == nil {
 		t.Errorf("CGATS: negative MaxColumns accepted")
+	}
+}
+
+// TestReadAllBounded checks that ReadAll, which holds every spectrum in
+// memory, stops at MaxValues values in the rows layout as well.
+func TestReadAllBounded(t *testing.T) {
+	t.Parallel()
+	var b strings.Builder
+	b.WriteString("name,400,500,600\n")
+	for i := range 20 {
+		fmt.Fprintf(&b, "s%d,0.1,0.2,0.3\n", i)
+	}
+	r := specio.NewReader(strings.NewReader(b.String()), "big.csv")
+	r.MaxValues = 30
+	list, err := r.ReadAll()
+	if !errors.Is(err, specio.ErrTooBig) || len(list) != 10 || !strings.Contains(err.Error(), "big.csv:12") {
+		t.Errorf("got %d spectra, %v; want 10 and specio.ErrTooBig at big.csv:12", len(list), err)
+	}
+	r = specio.NewReader(strings.NewReader(b.String()), "big.csv")
+	if list, err := r.ReadAll(); err != nil || len(list) != 20 {
+		t.Errorf("default limit: %d spectra, %v", len(list), err)
 	}
 }

@@ -218,6 +218,11 @@ func ReadFile(path string) ([]Named, error) {
 // error.
 func (r *Reader) ReadAll() ([]Named, error) {
 	var out []Named
+	limit := r.MaxValues
+	if limit <= 0 {
+		limit = DefaultMaxValues
+	}
+	total := 0
 	for {
 		n, err := r.Next()
 		if err == io.EOF {
@@ -225,6 +230,10 @@ func (r *Reader) ReadAll() ([]Named, error) {
 		}
 		if err != nil {
 			return out, err
+		}
+		// Everything read is held in memory: bound it as a columns table is.
+		if total += n.Spectrum.Len(); total > limit {
+			return out, fmt.Errorf("%s:%d: %w: more than %d values in all; stream the file with Next instead", r.file, n.Line, ErrTooBig, limit)
 		}
 		out = append(out, n)
 	}
