@@ -124,7 +124,7 @@ func fitDyes(e *env, args []string) error {
 	if !(limit > 0) || limit > 1e6 {
 		return usagef("--absorbance-limit %v: want a positive absorbance", limit)
 	}
-	scorer, err := dyeScorer(e, illum, obs)
+	scorer, err := scorerFlags(e, illum, obs)
 	if err != nil {
 		return err
 	}
@@ -240,19 +240,6 @@ func dyeContents(s mixing.DyeSample) string {
 	return strings.Join(parts, " + ")
 }
 
-// dyeScorer resolves --illuminant and --observer.
-func dyeScorer(e *env, illum, obs string) (*mixing.Scorer, error) {
-	o, err := observerFlag(obs)
-	if err != nil {
-		return nil, err
-	}
-	ill, name, err := illuminantFlag(e, illum)
-	if err != nil {
-		return nil, err
-	}
-	return mixing.NewScorer(o, ill, name), nil
-}
-
 // dyesModel asserts the model's type.
 func dyesModel(m mixing.Model) (*mixing.Dyes, error) {
 	d, ok := m.(*mixing.Dyes)
@@ -295,7 +282,7 @@ func mixDyes(e *env, mm mixing.Model, args []string) error {
 	if !(ell > 0) || ell > 1e12 {
 		return usagef("--path-length %v: want a positive number", ell)
 	}
-	scorer, err := dyeScorer(e, illum, obs)
+	scorer, err := scorerFlags(e, illum, obs)
 	if err != nil {
 		return err
 	}
@@ -406,7 +393,7 @@ func solveDyes(e *env, mm mixing.Model, args []string) error {
 	default:
 		return usagef("--scale %s: want fraction or percent", scale)
 	}
-	scorer, err := dyeScorer(e, illum, obs)
+	scorer, err := scorerFlags(e, illum, obs)
 	if err != nil {
 		return err
 	}

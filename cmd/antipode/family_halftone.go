@@ -198,7 +198,7 @@ func fitHalftone(e *env, args []string) error {
 	if scale != "" && scale != "fraction" && scale != "percent" {
 		return usagef("--scale %s: want fraction or percent", scale)
 	}
-	scorer, err := dyeScorer(e, illum, obs)
+	scorer, err := scorerFlags(e, illum, obs)
 	if err != nil {
 		return err
 	}
@@ -388,7 +388,7 @@ func mixHalftone(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return err
 	}
-	scorer, err := dyeScorer(e, illum, obs)
+	scorer, err := scorerFlags(e, illum, obs)
 	if err != nil {
 		return err
 	}
@@ -516,7 +516,7 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 			return err
 		}
 	}
-	if set.Scorer, err = dyeScorer(e, illum, obs); err != nil {
+	if set.Scorer, err = scorerFlags(e, illum, obs); err != nil {
 		return err
 	}
 	var sol mixing.Solution

@@ -446,7 +446,7 @@ func mixPigments(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return err
 	}
-	sc, err := pigmentScorer(e, illum, obs)
+	sc, err := scorerFlags(e, illum, obs)
 	if err != nil {
 		return err
 	}
@@ -516,19 +516,6 @@ func amountText(am []mixing.Amount) string {
 		parts[i] = fmt.Sprintf("%s %.4g", a.Name, a.Value)
 	}
 	return strings.Join(parts, ", ")
-}
-
-// pigmentScorer resolves --illuminant and --observer.
-func pigmentScorer(e *env, illum, obs string) (*mixing.Scorer, error) {
-	o, err := observerFlag(obs)
-	if err != nil {
-		return nil, err
-	}
-	ill, name, err := illuminantFlag(e, illum)
-	if err != nil {
-		return nil, err
-	}
-	return mixing.NewScorer(o, ill, name), nil
 }
 
 // recipeFlags are the flags shared by solve and correct.

@@ -92,7 +92,7 @@ func runGreyBalance(e *env, args []string) error {
 			set.Inks = append(set.Inks, strings.TrimSpace(n))
 		}
 	}
-	if set.Scorer, err = dyeScorer(e, illum, obs); err != nil {
+	if set.Scorer, err = scorerFlags(e, illum, obs); err != nil {
 		return err
 	}
 	gb, err := m.GreyBalance(set)

@@ -284,3 +284,17 @@ func amountList(names []string, v []float64, format string) string {
 	}
 	return strings.Join(parts, ",")
 }
+
+// scorerFlags resolves --illuminant and --observer into the Scorer that
+// fits, solves and mixes of object colours report ΔE00 with.
+func scorerFlags(e *env, illum, obs string) (*mixing.Scorer, error) {
+	o, err := observerFlag(obs)
+	if err != nil {
+		return nil, err
+	}
+	ill, name, err := illuminantFlag(e, illum)
+	if err != nil {
+		return nil, err
+	}
+	return mixing.NewScorer(o, ill, name), nil
+}
