@@ -4,6 +4,7 @@ go 1.26.0
 
 require (
 	github.com/lucasb-eyer/go-colorful v1.4.1
+	golang.org/x/sys v0.48.0
 	gonum.org/v1/gonum v0.17.0
 	gonum.org/v1/plot v0.17.0
 	pgregory.net/rapid v1.3.0

@@ -142,6 +142,36 @@ func TestXYZSharedBatch(t *testing.T) {
 	}
 }
 
+// TestXYZSharedBatch32 runs the float32 path on the anchor's data rounded
+// to float32: the sums over all spectra within 1e-6 relative of the numpy
+// anchor's float64 sums (the accuracy target for a float32 path).
+func TestXYZSharedBatch32(t *testing.T) {
+	v, ok := sharedReflectances(t)
+	if !ok {
+		t.Skip("../shared/bench/data/reflectances_81.f64 not generated (run make_data.py there)")
+	}
+	v32 := make([]float32, len(v))
+	for i, x := range v {
+		v32[i] = float32(x)
+	}
+	w, err := colorimetry.NewObjectWeights(cie.CIE1931(), cie.D65(), colorimetry.Grid5nm)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dst := w.XYZBatch32ParallelTo(make([]float64, 3*len(v)/81), v32, 0)
+	var sums [3][]float64
+	for j := 0; j < len(dst); j += 3 {
+		for k := range 3 {
+			sums[k] = append(sums[k], dst[j+k])
+		}
+	}
+	for k, want := range []float64{9017634.888148, 9545194.826928, 10021576.465055} {
+		if s := exactSum(sums[k]); math.Abs(s-want) > 1e-6*want {
+			t.Errorf("float32 path, sum of component %d: %.6f, numpy anchor %.6f", k, s, want)
+		}
+	}
+}
+
 // benchData returns the anchor's reflectances, or n synthetic ones.
 func benchData(b *testing.B, n int) []float64 {
 	if v, ok := sharedReflectances(b); ok {
@@ -179,6 +209,28 @@ func benchmarkShared(b *testing.B, workers int) {
 	b.ResetTimer()
 	for range b.N {
 		sinkBatch = w.XYZBatchParallelTo(dst, v, workers)
+	}
+	b.ReportMetric(float64(len(v)/81)*float64(b.N)/b.Elapsed().Seconds(), "spectra/s")
+}
+
+// BenchmarkXYZBatch32SharedParallel is the parallel batch on the same
+// reflectances rounded to float32: half the bytes to read per spectrum.
+func BenchmarkXYZBatch32SharedParallel(b *testing.B) {
+	v := benchData(b, 200000)
+	v32 := make([]float32, len(v))
+	for i, x := range v {
+		v32[i] = float32(x)
+	}
+	w, err := colorimetry.NewObjectWeights(cie.CIE1931(), cie.D65(), colorimetry.Grid5nm)
+	if err != nil {
+		b.Fatal(err)
+	}
+	dst := make([]float64, 3*len(v)/81)
+	b.SetBytes(int64(4 * len(v32)))
+	b.ReportAllocs()
+	b.ResetTimer()
+	for range b.N {
+		sinkBatch = w.XYZBatch32ParallelTo(dst, v32, 0)
 	}
 	b.ReportMetric(float64(len(v)/81)*float64(b.N)/b.Elapsed().Seconds(), "spectra/s")
 }

@@ -1,0 +1,52 @@
+//go:build amd64 && !purego
+
+package colorimetry
+
+import "golang.org/x/sys/cpu"
+
+// haveFMA reports whether the AVX2 + FMA kernels may run on this processor
+// (and the operating system saves the wide registers).
+var haveFMA = cpu.X86.HasAVX2 && cpu.X86.HasFMA
+
+// xyzBatchAVX2 is implemented in dot_amd64.s.
+//
+//go:noescape
+func xyzBatchAVX2(dst, v, wx, wy, wz *float64, n, count int)
+
+// xyzBatch32AVX2 is implemented in dot_amd64.s.
+//
+//go:noescape
+func xyzBatch32AVX2(dst *float64, v *float32, wx, wy, wz *float64, n, count int)
+
+// xyzBatch writes X, Y, Z of the len(v)/n spectra in v into dst (3 per
+// spectrum), with the vector kernel where the processor has one.
+func xyzBatch(dst, v, wx, wy, wz []float64) {
+	n := len(wx)
+	count := len(v) / n
+	if count == 0 {
+		return
+	}
+	if haveFMA {
+		_ = dst[3*count-1]
+		_, _ = wy[n-1], wz[n-1]
+		xyzBatchAVX2(&dst[0], &v[0], &wx[0], &wy[0], &wz[0], n, count)
+		return
+	}
+	xyzBatchGeneric(dst, v, wx, wy, wz)
+}
+
+// xyzBatch32 is xyzBatch for float32 samples.
+func xyzBatch32(dst []float64, v []float32, wx, wy, wz []float64) {
+	n := len(wx)
+	count := len(v) / n
+	if count == 0 {
+		return
+	}
+	if haveFMA {
+		_ = dst[3*count-1]
+		_, _ = wy[n-1], wz[n-1]
+		xyzBatch32AVX2(&dst[0], &v[0], &wx[0], &wy[0], &wz[0], n, count)
+		return
+	}
+	xyzBatchGeneric(dst, v, wx, wy, wz)
+}
