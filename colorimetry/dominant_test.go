@@ -226,6 +226,56 @@ func TestDominantWorked(t *testing.T) {
 	}
 }
 
+// TestDominantReferenceLibrary checks the worked examples in the
+// documentation of colour-science, the general-purpose Python colour
+// library on PyPI (module colour.colorimetry.dominant, functions
+// dominant_wavelength, complementary_wavelength, excitation_purity and
+// colorimetric_purity; CIE 1931 observer at 1 nm, white (0.3127, 0.3290)).
+// The figures are from memory: PyPI cannot be reached from this workshop's
+// machines to read them again. They are printed truncated to 7 decimals, so
+// ours must lie within 1e-7 of them; that library reports the wavelength as
+// the nearest table row, so ours must round to it.
+func TestDominantReferenceLibrary(t *testing.T) {
+	t.Parallel()
+	l := spectrumLocus(t, cie.CIE1931())
+	white := colorimetry.XY{X: 0.3127, Y: 0.3290}
+	near := func(what string, got, want float64) {
+		if math.Abs(got-want) > 1e-7 {
+			t.Errorf("%s: %.9f, reference library %.7f", what, got, want)
+		}
+	}
+
+	// A red: dominant wavelength 616 nm, the ray meeting the locus at
+	// (0.6835474, 0.3162840); pe 0.6228856, pc 0.6135828.
+	d, err := l.Dominant(colorimetry.XY{X: 0.54369557, Y: 0.32107944}, white)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.Complementary || math.Round(d.Wavelength) != 616 {
+		t.Errorf("red: %+v, reference library 616 nm", d)
+	}
+	near("red boundary x", d.Boundary.X, 0.6835474)
+	near("red boundary y", d.Boundary.Y, 0.3162840)
+	near("red excitation purity", d.ExcitationPurity, 0.6228856)
+	near("red colorimetric purity", d.ColorimetricPurity, 0.6135828)
+
+	// A purple: no dominant wavelength; complementary wavelength 509 nm,
+	// the opposite ray meeting the locus at (0.0104096, 0.7320745).
+	d, err = l.Dominant(colorimetry.XY{X: 0.37605506, Y: 0.24452225}, white)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !d.Complementary || math.Round(d.Wavelength) != 509 {
+		t.Errorf("purple: %+v, reference library complementary 509 nm", d)
+	}
+	p, err := l.At(d.Wavelength)
+	if err != nil {
+		t.Fatal(err)
+	}
+	near("purple complementary point x", p.X, 0.0104096)
+	near("purple complementary point y", p.Y, 0.7320745)
+}
+
 // TestDominantPurple checks purple colours (CIE 015:2018 §9.1): a mixture
 // of 420 nm and 650 nm light of equal radiant power lies beyond the white
 // from the green, so its
