@@ -251,18 +251,25 @@ func BenchmarkReadCeiling(b *testing.B) {
 		for lo := 0; lo < len(v); lo += per {
 			part := v[lo:min(lo+per, len(v))]
 			go func() {
-				var s0, s1, s2, s3 float64
+				// Eight independent sums: with fewer, the add latency
+				// (not the memory) limits the loop on current cores.
+				var s0, s1, s2, s3, s4, s5, s6, s7 float64
 				i := 0
-				for ; i+4 <= len(part); i += 4 {
-					s0 += part[i]
-					s1 += part[i+1]
-					s2 += part[i+2]
-					s3 += part[i+3]
+				for ; i+8 <= len(part); i += 8 {
+					p := part[i : i+8 : i+8]
+					s0 += p[0]
+					s1 += p[1]
+					s2 += p[2]
+					s3 += p[3]
+					s4 += p[4]
+					s5 += p[5]
+					s6 += p[6]
+					s7 += p[7]
 				}
 				for ; i < len(part); i++ {
 					s0 += part[i]
 				}
-				done <- s0 + s1 + s2 + s3
+				done <- (s0 + s1) + (s2 + s3) + (s4 + s5) + (s6 + s7)
 			}()
 		}
 		var s float64
