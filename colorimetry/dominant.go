@@ -241,21 +241,32 @@ func DominantWavelength(obs *Observer, c, white XY) (Dominant, error) {
 	return l.Dominant(c, white)
 }
 
-// checkWhite returns an error unless w is finite and lies inside the
-// boundary (even–odd rule).
-func (l *SpectrumLocus) checkWhite(w XY) error {
-	if !isFinite(w.X) || !isFinite(w.Y) {
-		return fmt.Errorf("white point (%g, %g): %w", w.X, w.Y, ErrNotFinite)
+// Contains reports whether the chromaticity c lies inside the region of
+// physically realisable stimuli: the area bounded by the spectrum locus and
+// the purple line (even–odd rule; a point on the boundary may fall either
+// way by rounding). Non-finite coordinates are outside.
+func (l *SpectrumLocus) Contains(c XY) bool {
+	if !isFinite(c.X) || !isFinite(c.Y) {
+		return false
 	}
 	inside := false
 	n := len(l.p)
 	for i, a := range l.p {
 		b := l.p[(i+1)%n]
-		if (a.Y > w.Y) != (b.Y > w.Y) && w.X < a.X+(w.Y-a.Y)*(b.X-a.X)/(b.Y-a.Y) {
+		if (a.Y > c.Y) != (b.Y > c.Y) && c.X < a.X+(c.Y-a.Y)*(b.X-a.X)/(b.Y-a.Y) {
 			inside = !inside
 		}
 	}
-	if !inside {
+	return inside
+}
+
+// checkWhite returns an error unless w is finite and lies inside the
+// boundary.
+func (l *SpectrumLocus) checkWhite(w XY) error {
+	if !isFinite(w.X) || !isFinite(w.Y) {
+		return fmt.Errorf("white point (%g, %g): %w", w.X, w.Y, ErrNotFinite)
+	}
+	if !l.Contains(w) {
 		return fmt.Errorf("white point (%g, %g) for %s: %w", w.X, w.Y, l.observer, ErrOutOfGamut)
 	}
 	return nil

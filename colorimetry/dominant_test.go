@@ -415,3 +415,29 @@ func TestDominantErrors(t *testing.T) {
 		t.Errorf("DominantWavelength: %+v, %v; SpectrumLocus.Dominant: %+v, %v", a, errA, b, errB)
 	}
 }
+
+// TestSpectrumLocusContains checks points against the CIE 1931 chart: the
+// whites inside; the purple line runs from (0.1741, 0.0050) at 380 nm to
+// (0.7347, 0.2653) at 780 nm (CIE 015:2018 observer table, 4 decimals;
+// from memory), so at x = 0.3 it passes y ≈ 0.063: y = 0.08 lies inside and
+// y = 0.04 outside; points beyond the locus and non-finite ones are outside.
+func TestSpectrumLocusContains(t *testing.T) {
+	t.Parallel()
+	l := spectrumLocus(t, cie.CIE1931())
+	for _, tc := range []struct {
+		c    colorimetry.XY
+		want bool
+	}{
+		{whiteD65, true},
+		{whiteE, true},
+		{colorimetry.XY{X: 0.3, Y: 0.08}, true},
+		{colorimetry.XY{X: 0.3, Y: 0.04}, false},
+		{colorimetry.XY{X: 0.7, Y: 0.7}, false},
+		{colorimetry.XY{X: 0, Y: 0}, false},
+		{colorimetry.XY{X: math.NaN(), Y: 0.3}, false},
+	} {
+		if got := l.Contains(tc.c); got != tc.want {
+			t.Errorf("Contains(%v) = %v, want %v", tc.c, got, tc.want)
+		}
+	}
+}

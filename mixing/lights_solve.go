@@ -27,7 +27,10 @@ type LightTarget struct {
 // temperature kelvin (K) and distance duv from the Planckian locus (CIE
 // 1960 UCS), on the Planckian locus of obs (Planck's law with
 // c2 = colorimetry.C2). It returns the *colorimetry.CCTRangeError of
-// PlanckianTable.UV outside 1000–100 000 K or |Duv| > 0.05.
+// PlanckianTable.UV outside 1000–100 000 K or |Duv| > 0.05, and an error
+// wrapping colorimetry.ErrOutOfGamut when the point lies outside the
+// spectrum locus (at low CCT a large positive Duv leaves it: no light has
+// that colour).
 func LightTargetCCT(obs *colorimetry.Observer, kelvin, duv float64) (colorimetry.XY, error) {
 	t, err := colorimetry.NewPlanckianTable(obs, colorimetry.C2)
 	if err != nil {
@@ -37,7 +40,16 @@ func LightTargetCCT(obs *colorimetry.Observer, kelvin, duv float64) (colorimetry
 	if err != nil {
 		return colorimetry.XY{}, err
 	}
-	return uv.UVPrime().XY(), nil
+	xy := uv.UVPrime().XY()
+	l, err := colorimetry.NewSpectrumLocus(obs)
+	if err != nil {
+		return colorimetry.XY{}, err
+	}
+	if !l.Contains(xy) {
+		return colorimetry.XY{}, fmt.Errorf("%g K with Duv %+g is (x, y) = (%.4f, %.4f), outside the spectrum locus of %s: %w",
+			kelvin, duv, xy.X, xy.Y, obs.Name(), colorimetry.ErrOutOfGamut)
+	}
+	return xy, nil
 }
 
 // LightPreference says which exact solution a solve ranks first when a

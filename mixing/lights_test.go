@@ -1025,3 +1025,21 @@ func TestLightsSolveRejects(t *testing.T) {
 		}
 	}
 }
+
+// TestLightTargetCCTOutsideLocus checks that a CCT and Duv inside the
+// range of CIE 015:2018 (1000–100 000 K, |Duv| ≤ 0.05) but off the chart
+// is refused: at 1000 K the Planckian locus, at (x, y) ≈ (0.653, 0.344)
+// (from memory), runs close to the red end of the spectrum locus, so Duv
+// +0.05 leaves the chart, while Duv 0 and −0.05 stay inside.
+func TestLightTargetCCTOutsideLocus(t *testing.T) {
+	t.Parallel()
+	obs := cie.CIE1931()
+	if _, err := LightTargetCCT(obs, 1000, 0.05); !errors.Is(err, colorimetry.ErrOutOfGamut) {
+		t.Errorf("1000 K, Duv +0.05: error %v, want ErrOutOfGamut", err)
+	}
+	for _, duv := range []float64{0, -0.05} {
+		if _, err := LightTargetCCT(obs, 1000, duv); err != nil {
+			t.Errorf("1000 K, Duv %+g: %v", duv, err)
+		}
+	}
+}
