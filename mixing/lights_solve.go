@@ -46,7 +46,7 @@ func LightTargetCCT(obs *colorimetry.Observer, kelvin, duv float64) (colorimetry
 		return colorimetry.XY{}, err
 	}
 	if !l.Contains(xy) {
-		return colorimetry.XY{}, fmt.Errorf("%g K with Duv %+g is (x, y) = (%.4f, %.4f), outside the spectrum locus of %s: %w",
+		return colorimetry.XY{}, fmt.Errorf("%g K with Duv %+g is at (x, y) = (%.4f, %.4f) for %s: %w",
 			kelvin, duv, xy.X, xy.Y, obs.Name(), colorimetry.ErrOutOfGamut)
 	}
 	return xy, nil
