@@ -1,8 +1,6 @@
 package main
 
 import (
-	"bytes"
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -11,7 +9,6 @@ import (
 	"strings"
 
 	"github.com/antipode-color/antipode/colorimetry"
-	"github.com/antipode-color/antipode/colorimetry/specio"
 	"github.com/antipode-color/antipode/mixing"
 )
 
@@ -98,25 +95,17 @@ reachable. Concentrations are in the calibration's unit.`,
 
 // fitDyes runs "antipode fit dyes".
 func fitDyes(e *env, args []string) error {
-	var out, illum, obs string
+	ff := fitFlags{model: "MODEL.json"}
+	var vf viewFlags
 	var holdout, limit float64
-	var asJSON bool
 	fs := flag.NewFlagSet("fit dyes", flag.ContinueOnError)
-	fs.StringVar(&out, "out", "", "write the model to `MODEL.json` (required)")
-	fs.StringVar(&illum, "illuminant", "D65", "illuminant for the ΔE00 of the report: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	ff.define(fs)
+	vf.define(fs, "D65", "illuminant for the ΔE00 of the report")
 	fs.Float64Var(&holdout, "holdout", 0, "hold out this `FRACTION` (0–1) of the samples for validation, chosen deterministically (never blanks nor a dye's lowest or highest concentration)")
 	fs.Float64Var(&limit, "absorbance-limit", mixing.DefaultAbsorbanceLimit, "leave out measured absorbance above `A` (stray light)")
-	fs.BoolVar(&asJSON, "json", false, "print the fit report as JSON instead of tables")
-	files, err := parseFlags(fitDyesCommand, fs, e, args)
+	files, err := ff.parse(fitDyesCommand, fs, e, args, "measurement")
 	if err != nil {
 		return err
-	}
-	if len(files) != 1 {
-		return usagef("name one measurement file: %s", fitDyesCommand.usage)
-	}
-	if out == "" {
-		return usagef("--out MODEL.json is required")
 	}
 	if holdout < 0 || holdout >= 1 || holdout != holdout {
 		return usagef("--holdout %v: want a fraction in [0, 1)", holdout)
@@ -124,22 +113,14 @@ func fitDyes(e *env, args []string) error {
 	if !(limit > 0) || limit > 1e6 {
 		return usagef("--absorbance-limit %v: want a positive absorbance", limit)
 	}
-	scorer, err := scorerFlags(e, illum, obs)
+	scorer, err := vf.scorer(e)
 	if err != nil {
 		return err
 	}
 	path := files[0]
-	var recs []specio.Named
-	if path == "-" {
-		recs, err = specio.NewReader(e.stdin, "-").ReadAll()
-	} else {
-		recs, err = specio.ReadFile(path)
-	}
+	recs, err := readCalibration(e, path, "no dye or concentration columns: the dyes calibration needs the rows layout (name, dye, concentration, then wavelengths; see 'antipode fit dyes --help')")
 	if err != nil {
 		return err
-	}
-	if len(recs) > 0 && recs[0].Fields == nil {
-		return fmt.Errorf("%s: no dye or concentration columns: the dyes calibration needs the rows layout (name, dye, concentration, then wavelengths; see 'antipode fit dyes --help')", path)
 	}
 	samples, unit, err := mixing.DyeSamples(recs, path)
 	if err != nil {
@@ -149,16 +130,16 @@ func fitDyes(e *env, args []string) error {
 	if err != nil {
 		return fmt.Errorf("%s: %w", path, err)
 	}
-	if err := saveModel(out, m, files); err != nil {
+	if err := saveModel(ff.out, m, files); err != nil {
 		return err
 	}
-	if asJSON {
-		return dyeWriteJSON(e.stdout, map[string]any{
-			"model": out, "kind": m.Kind(), "unit": m.Unit(), "dyes": m.Names(), "fit": m.Report(),
+	if ff.asJSON {
+		return writeJSON(e.stdout, map[string]any{
+			"model": ff.out, "kind": m.Kind(), "unit": m.Unit(), "dyes": m.Names(), "fit": m.Report(),
 			"linearity": dyeNonNil(m.Linearity()), "breakdowns": dyeNonNil(m.Breakdowns()),
 		})
 	}
-	printDyeFit(e.stdout, m, samples, path, out)
+	printDyeFit(e.stdout, m, samples, path, ff.out)
 	return nil
 }
 
@@ -181,13 +162,7 @@ func printDyeFit(w io.Writer, m *mixing.Dyes, samples []mixing.DyeSample, path, 
 		t.row(s.Name, dyeContents(samples[k]), set, fmt.Sprintf("%.4f", s.RMS), fmt.Sprintf("%.4f", s.MaxAbs), fmt.Sprintf("%.2f", s.DE00))
 	}
 	t.write(w)
-	fmt.Fprintf(w, "\nfit:      %d samples, RMS %.4f, ΔE00 mean %.2f, 95th percentile %.2f, max %.2f\n",
-		r.Training.N, r.RMS, r.Training.Mean, r.Training.P95, r.Training.Max)
-	if r.HeldOut != nil {
-		fmt.Fprintf(w, "held out: %d samples, ΔE00 mean %.2f, 95th percentile %.2f, max %.2f\n", r.HeldOut.N, r.HeldOut.Mean, r.HeldOut.P95, r.HeldOut.Max)
-	} else {
-		fmt.Fprintln(w, "held out: none (mark samples with heldout = 1 or use --holdout)")
-	}
+	printFitSummary(w, &r, "samples", 4, "mark samples with heldout = 1 or use --holdout")
 
 	fmt.Fprintf(w, "\nBeer–Lambert linearity (R² of absorbance against concentration)\n")
 	var lt table
@@ -220,10 +195,7 @@ func printDyeFit(w io.Writer, m *mixing.Dyes, samples []mixing.DyeSample, path, 
 		}
 		ft.write(w)
 	}
-	if len(r.Warnings) > 0 {
-		fmt.Fprintf(w, "\nwarnings:\n  %s\n", joinLines(r.Warnings))
-	}
-	fmt.Fprintf(w, "\nwrote %s\n", out)
+	printClosing(w, "\n", r.Warnings, out)
 }
 
 // dyeContents describes what a calibration sample holds.
@@ -240,35 +212,22 @@ func dyeContents(s mixing.DyeSample) string {
 	return strings.Join(parts, " + ")
 }
 
-// dyesModel asserts the model's type.
-func dyesModel(m mixing.Model) (*mixing.Dyes, error) {
-	d, ok := m.(*mixing.Dyes)
-	if !ok {
-		return nil, fmt.Errorf("not a dyes model (kind %q)", m.Kind())
-	}
-	return d, nil
-}
-
 // mixDyes runs "antipode mix" on a dyes model.
 func mixDyes(e *env, mm mixing.Model, args []string) error {
-	var amounts, illum, obs, out string
+	var amounts, out string
 	var ell float64
+	var vf viewFlags
 	var asJSON bool
 	fs := flag.NewFlagSet("mix", flag.ContinueOnError)
 	fs.StringVar(&amounts, "amounts", "", "concentrations as `name=value,…` in the calibration's unit")
 	fs.Float64Var(&ell, "path-length", 1, "path length or film thickness `L` relative to the calibration's")
-	fs.StringVar(&illum, "illuminant", "D65", "illuminant for the colour: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	vf.define(fs, "D65", "illuminant for the colour")
 	fs.StringVar(&out, "out", "", "write the transmittance spectrum to `FILE.csv`")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of text")
-	pos, err := parseFlags(mixDyesCommand, fs, e, args)
-	if err != nil {
+	if err := parseNoArgs(mixDyesCommand, fs, e, args); err != nil {
 		return err
 	}
-	if len(pos) > 0 {
-		return usagef("unexpected argument %q", pos[0])
-	}
-	m, err := dyesModel(mm)
+	m, err := modelAs[*mixing.Dyes](mm, "dyes")
 	if err != nil {
 		return err
 	}
@@ -282,7 +241,7 @@ func mixDyes(e *env, mm mixing.Model, args []string) error {
 	if !(ell > 0) || ell > 1e12 {
 		return usagef("--path-length %v: want a positive number", ell)
 	}
-	scorer, err := scorerFlags(e, illum, obs)
+	scorer, err := vf.scorer(e)
 	if err != nil {
 		return err
 	}
@@ -293,41 +252,23 @@ func mixDyes(e *env, mm mixing.Model, args []string) error {
 		}
 		return err
 	}
-	w, err := scorer.ObjectWeights(s.Grid())
-	if err != nil {
-		return err
-	}
-	xyz, err := w.XYZ(s)
-	if err != nil {
-		return err
-	}
-	lab, err := xyz.Lab(w.White())
+	xyz, lab, err := objectColour(scorer, s)
 	if err != nil {
 		return err
 	}
 	c, _ := m.Concentrations(am)
-	if out != "" {
-		var b bytes.Buffer
-		if err := specio.WriteColumns(&b, []specio.Named{{Name: "transmittance", Spectrum: s}}); err != nil {
-			return err
-		}
-		if err := e.writeOut("--out", out, b.Bytes()); err != nil {
-			return err
-		}
+	if err := e.writeSpectrumOut(out, "transmittance", s); err != nil {
+		return err
 	}
 	if asJSON {
 		amj := map[string]float64{}
 		for i, n := range m.Names() {
 			amj[n] = c[i]
 		}
-		var outKey any
-		if out != "" {
-			outKey = out
-		}
-		return dyeWriteJSON(e.stdout, map[string]any{
+		return writeJSON(e.stdout, map[string]any{
 			"amounts": amj, "unit": m.Unit(), "path_length": ell, "illuminant": scorer.Illuminant(), "observer": scorer.Observer(),
 			"X": xyz.X, "Y": xyz.Y, "Z": xyz.Z, "L": lab.L, "a": lab.A, "b": lab.B, "transmittance_Y": xyz.Y,
-			"out": outKey, "warnings": nonNil(warns),
+			"out": orNull(out), "warnings": nonNil(warns),
 		})
 	}
 	unit := dyeUnit(m.Unit())
@@ -345,37 +286,28 @@ func mixDyes(e *env, mm mixing.Model, args []string) error {
 	fmt.Fprintf(e.stdout, "  X %.3f  Y %.3f  Z %.3f\n", xyz.X, xyz.Y, xyz.Z)
 	fmt.Fprintf(e.stdout, "  L* %.2f  a* %.2f  b* %.2f\n", lab.L, lab.A, lab.B)
 	fmt.Fprintf(e.stdout, "  luminous transmittance Y %.2f %%\n", xyz.Y)
-	if len(warns) > 0 {
-		fmt.Fprintf(e.stdout, "warnings:\n  %s\n", joinLines(warns))
-	}
-	if out != "" {
-		fmt.Fprintf(e.stdout, "wrote %s\n", out)
-	}
+	printClosing(e.stdout, "", warns, out)
 	return nil
 }
 
 // solveDyes runs "antipode solve" on a dyes model.
 func solveDyes(e *env, mm mixing.Model, args []string) error {
-	var target, illum, obs, scale string
+	var target, scale string
+	var vf viewFlags
 	var ell, tol float64
 	var asJSON bool
 	fs := flag.NewFlagSet("solve", flag.ContinueOnError)
 	fs.StringVar(&target, "target", "", "target transmittance: a spectral `FILE`, or FILE:NAME for one spectrum of it")
-	fs.StringVar(&illum, "illuminant", "D65", "illuminant of the colour match: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	vf.define(fs, "D65", "illuminant of the colour match")
 	fs.Float64Var(&ell, "path-length", 1, "path length or film thickness `L` of the recipe, relative to the calibration's")
 	fs.Float64Var(&tol, "tolerance", mixing.DefaultDyeTolerance, "`ΔE00` up to which the target counts as reached")
 	fs.StringVar(&scale, "scale", "", "scale of the target's values: `fraction` (0–1) or percent; default: percent when the maximum exceeds 1.5")
 	plotPath := plotFlag(fs)
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
-	pos, err := parseFlags(solveDyesCommand, fs, e, args)
-	if err != nil {
+	if err := parseNoArgs(solveDyesCommand, fs, e, args); err != nil {
 		return err
 	}
-	if len(pos) > 0 {
-		return usagef("unexpected argument %q", pos[0])
-	}
-	m, err := dyesModel(mm)
+	m, err := modelAs[*mixing.Dyes](mm, "dyes")
 	if err != nil {
 		return err
 	}
@@ -388,12 +320,10 @@ func solveDyes(e *env, mm mixing.Model, args []string) error {
 	if !(tol >= 0) || tol > 1e6 {
 		return usagef("--tolerance %v: want a non-negative ΔE00", tol)
 	}
-	switch scale {
-	case "", "fraction", "percent":
-	default:
-		return usagef("--scale %s: want fraction or percent", scale)
+	if err := checkScale(scale); err != nil {
+		return err
 	}
-	scorer, err := scorerFlags(e, illum, obs)
+	scorer, err := vf.scorer(e)
 	if err != nil {
 		return err
 	}
@@ -420,7 +350,7 @@ func solveDyes(e *env, mm mixing.Model, args []string) error {
 		}
 		return fmt.Errorf("%s: %w", list[0].place(), err)
 	}
-	err = plotObjectSolve(e, *plotPath, "transmittance", illum, obs, &namedSpectrum{name: list[0].name, s: ts}, sol,
+	err = plotObjectSolve(e, *plotPath, "transmittance", vf.illum, vf.obs, &namedSpectrum{name: list[0].name, s: ts}, sol,
 		func(a []mixing.Amount) (colorimetry.Spectrum, error) {
 			s, _, err := m.Transmittance(a, ell)
 			return s, err
@@ -428,9 +358,7 @@ func solveDyes(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return err
 	}
-	for i := range sol.Recipes {
-		sol.Recipes[i].Warnings = append(append([]string(nil), twarn...), sol.Recipes[i].Warnings...)
-	}
+	prependWarnings(sol, twarn)
 	if asJSON {
 		return writeSolution(e, sol)
 	}
@@ -491,16 +419,4 @@ func dyeNonNil[T any](s []T) []T {
 		return []T{}
 	}
 	return s
-}
-
-// dyeWriteJSON prints v indented.
-func dyeWriteJSON(w io.Writer, v any) error {
-	var b bytes.Buffer
-	enc := json.NewEncoder(&b)
-	enc.SetIndent("", "  ")
-	if err := enc.Encode(v); err != nil {
-		return err
-	}
-	_, err := w.Write(b.Bytes())
-	return err
 }

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"errors"
 	"flag"
 	"fmt"
@@ -11,7 +10,6 @@ import (
 	"strings"
 
 	"github.com/antipode-color/antipode/colorimetry"
-	"github.com/antipode-color/antipode/colorimetry/specio"
 	"github.com/antipode-color/antipode/mixing"
 )
 
@@ -124,30 +122,11 @@ With --json the output is {"recipes":[{"amounts":{ink: coverage},"dE00",
 
 // htReadChart reads a calibration chart, with reflectance as fractions.
 func htReadChart(e *env, path, scale string) ([]mixing.HalftoneSample, []string, []string, error) {
-	var recs []specio.Named
-	var err error
-	if path == "-" {
-		recs, err = specio.NewReader(e.stdin, "-").ReadAll()
-	} else {
-		recs, err = specio.ReadFile(path)
-	}
+	recs, err := readCalibration(e, path, "no coverage columns: the halftone calibration needs the rows layout (name, c, m, y, k in percent, [heldout], then wavelengths; see 'antipode fit halftone --help')")
 	if err != nil {
 		return nil, nil, nil, err
 	}
-	if len(recs) > 0 && recs[0].Fields == nil {
-		return nil, nil, nil, fmt.Errorf("%s: no coverage columns: the halftone calibration needs the rows layout (name, c, m, y, k in percent, [heldout], then wavelengths; see 'antipode fit halftone --help')", path)
-	}
-	var warns []string
-	if scale == "" {
-		scale = "fraction"
-		for _, r := range recs {
-			if v, _ := r.Spectrum.Max(); v > 1.5 {
-				scale = "percent"
-				warns = append(warns, fmt.Sprintf("reflectance taken as percent (line %d reaches %.4g > 1.5); say --scale to choose", r.Line, v))
-				break
-			}
-		}
-	}
+	scale, warns := recordsScale(recs, scale, "reflectance")
 	samples, inks, err := mixing.HalftoneSamples(recs, path)
 	if err != nil {
 		return nil, nil, nil, err
@@ -162,28 +141,22 @@ func htReadChart(e *env, path, scale string) ([]mixing.HalftoneSample, []string,
 
 // fitHalftone runs "antipode fit halftone".
 func fitHalftone(e *env, args []string) error {
-	var out, illum, obs, scale string
+	ff := fitFlags{model: "PRINT.json"}
+	var vf viewFlags
+	var scale string
 	var holdout, n, tac float64
-	var perInk, asJSON bool
+	var perInk bool
 	fs := flag.NewFlagSet("fit halftone", flag.ContinueOnError)
-	fs.StringVar(&out, "out", "", "write the model to `PRINT.json` (required)")
+	ff.define(fs)
 	fs.Float64Var(&tac, "tac", 0, "record the press's total area coverage limit, in `PERCENT` (e.g. 300), for solve and greybalance; 0 records none")
 	fs.Float64Var(&n, "n", 0, "fix the Yule–Nielsen factor at `N` (1 gives the spectral Neugebauer model) instead of fitting it")
 	fs.BoolVar(&perInk, "per-ink-n", false, "fit one Yule–Nielsen factor per ink, each from its own ramp")
 	fs.Float64Var(&holdout, "holdout", 0, "hold out this `FRACTION` (0–1) of the patches for validation, chosen deterministically (never a primary nor a ramp's lightest or darkest tint)")
-	fs.StringVar(&illum, "illuminant", "D50", "illuminant for the ΔE00 of the report: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	vf.define(fs, "D50", "illuminant for the ΔE00 of the report")
 	fs.StringVar(&scale, "scale", "", "scale of the reflectances: `fraction` (0–1) or percent; default: percent when a value exceeds 1.5")
-	fs.BoolVar(&asJSON, "json", false, "print the fit report as JSON instead of tables")
-	files, err := parseFlags(fitHalftoneCommand, fs, e, args)
+	files, err := ff.parse(fitHalftoneCommand, fs, e, args, "chart")
 	if err != nil {
 		return err
-	}
-	if len(files) != 1 {
-		return usagef("name one chart file: %s", fitHalftoneCommand.usage)
-	}
-	if out == "" {
-		return usagef("--out PRINT.json is required")
 	}
 	switch {
 	case holdout < 0 || holdout >= 1 || holdout != holdout:
@@ -195,10 +168,10 @@ func fitHalftone(e *env, args []string) error {
 	case tac < 0 || tac > 100*mixing.MaxHalftoneInks || tac != tac:
 		return usagef("--tac %v: want a total area coverage in percent, e.g. 300", tac)
 	}
-	if scale != "" && scale != "fraction" && scale != "percent" {
-		return usagef("--scale %s: want fraction or percent", scale)
+	if err := checkScale(scale); err != nil {
+		return err
 	}
-	scorer, err := scorerFlags(e, illum, obs)
+	scorer, err := vf.scorer(e)
 	if err != nil {
 		return err
 	}
@@ -214,21 +187,21 @@ func fitHalftone(e *env, args []string) error {
 		}
 		return fmt.Errorf("%s: %w", path, err)
 	}
-	if err := saveModel(out, m, files); err != nil {
+	if err := saveModel(ff.out, m, files); err != nil {
 		return err
 	}
-	if asJSON {
+	if ff.asJSON {
 		nf, se := m.NFactor()
 		var tacv any
 		if m.TAC() > 0 {
 			tacv = m.TAC()
 		}
 		return writeJSON(e.stdout, map[string]any{
-			"model": out, "kind": m.Kind(), "inks": m.Inks(), "n_factor": nf, "n_factor_se": se, "tac_percent": tacv,
+			"model": ff.out, "kind": m.Kind(), "inks": m.Inks(), "n_factor": nf, "n_factor_se": se, "tac_percent": tacv,
 			"primaries": m.PrimaryFits(), "inks_fit": m.InkFits(), "fit": m.Report(), "warnings": nonNil(warns),
 		})
 	}
-	printHalftoneFit(e.stdout, m, samples, path, out, warns)
+	printHalftoneFit(e.stdout, m, samples, path, ff.out, warns)
 	return nil
 }
 
@@ -315,26 +288,13 @@ func printHalftoneFit(w io.Writer, m *mixing.Halftone, samples []mixing.Halftone
 		st.row(append(row, set, fmt.Sprintf("%.4f", sf.RMS), fmt.Sprintf("%.4f", sf.MaxAbs), fmt.Sprintf("%.2f", sf.DE00))...)
 	}
 	st.write(w)
-	fmt.Fprintf(w, "\nfit:      %d tints, RMS %.4f, ΔE00 mean %.2f, 95th percentile %.2f, max %.2f\n",
-		r.Training.N, r.RMS, r.Training.Mean, r.Training.P95, r.Training.Max)
-	if r.HeldOut != nil {
-		fmt.Fprintf(w, "held out: %d tints, ΔE00 mean %.2f, 95th percentile %.2f, max %.2f\n", r.HeldOut.N, r.HeldOut.Mean, r.HeldOut.P95, r.HeldOut.Max)
-	} else {
-		fmt.Fprintln(w, "held out: none (mark overprint tints with heldout = 1 or use --holdout)")
-	}
-	if all := append(append([]string(nil), readWarns...), r.Warnings...); len(all) > 0 {
-		fmt.Fprintf(w, "\nwarnings:\n  %s\n", joinLines(all))
-	}
-	fmt.Fprintf(w, "\nwrote %s\n", out)
+	printFitSummary(w, &r, "tints", 4, "mark overprint tints with heldout = 1 or use --holdout")
+	printClosing(w, "\n", append(append([]string(nil), readWarns...), r.Warnings...), out)
 }
 
 // halftoneModel asserts the model's type.
 func halftoneModel(m mixing.Model) (*mixing.Halftone, error) {
-	h, ok := m.(*mixing.Halftone)
-	if !ok {
-		return nil, fmt.Errorf("not a halftone model (kind %q)", m.Kind())
-	}
-	return h, nil
+	return modelAs[*mixing.Halftone](m, "halftone")
 }
 
 // htCoverageFlag parses an ink=fraction list for the flag name, with a
@@ -362,20 +322,16 @@ func htInkError(flagName string, err error) error {
 
 // mixHalftone runs "antipode mix" on a halftone model.
 func mixHalftone(e *env, mm mixing.Model, args []string) error {
-	var amounts, illum, obs, out string
+	var amounts, out string
+	var vf viewFlags
 	var asJSON bool
 	fs := flag.NewFlagSet("mix", flag.ContinueOnError)
 	fs.StringVar(&amounts, "amounts", "", "nominal coverages as `ink=fraction,…` (0–1)")
-	fs.StringVar(&illum, "illuminant", "D50", "illuminant for the colour: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	vf.define(fs, "D50", "illuminant for the colour")
 	fs.StringVar(&out, "out", "", "write the reflectance spectrum to `FILE.csv`")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of text")
-	pos, err := parseFlags(mixHalftoneCommand, fs, e, args)
-	if err != nil {
+	if err := parseNoArgs(mixHalftoneCommand, fs, e, args); err != nil {
 		return err
-	}
-	if len(pos) > 0 {
-		return usagef("unexpected argument %q", pos[0])
 	}
 	m, err := halftoneModel(mm)
 	if err != nil {
@@ -388,7 +344,7 @@ func mixHalftone(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return err
 	}
-	scorer, err := scorerFlags(e, illum, obs)
+	scorer, err := vf.scorer(e)
 	if err != nil {
 		return err
 	}
@@ -400,15 +356,7 @@ func mixHalftone(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return htInkError("amounts", err)
 	}
-	w, err := scorer.ObjectWeights(s.Grid())
-	if err != nil {
-		return err
-	}
-	xyz, err := w.XYZ(s)
-	if err != nil {
-		return err
-	}
-	lab, err := xyz.Lab(w.White())
+	xyz, lab, err := objectColour(scorer, s)
 	if err != nil {
 		return err
 	}
@@ -417,14 +365,8 @@ func mixHalftone(e *env, mm mixing.Model, args []string) error {
 	for _, v := range cov {
 		tac += v
 	}
-	if out != "" {
-		var b bytes.Buffer
-		if err := specio.WriteColumns(&b, []specio.Named{{Name: "reflectance", Spectrum: s}}); err != nil {
-			return err
-		}
-		if err := e.writeOut("--out", out, b.Bytes()); err != nil {
-			return err
-		}
+	if err := e.writeSpectrumOut(out, "reflectance", s); err != nil {
+		return err
 	}
 	var warns []string
 	if lim := m.TAC(); lim > 0 && 100*tac > lim+1e-9 {
@@ -435,13 +377,9 @@ func mixHalftone(e *env, mm mixing.Model, args []string) error {
 		for i, ink := range m.Inks() {
 			amj[ink], effj[ink] = cov[i], eff[i]
 		}
-		var outKey any
-		if out != "" {
-			outKey = out
-		}
 		return writeJSON(e.stdout, map[string]any{
 			"amounts": amj, "effective": effj, "tac_percent": 100 * tac, "illuminant": scorer.Illuminant(), "observer": scorer.Observer(),
-			"X": xyz.X, "Y": xyz.Y, "Z": xyz.Z, "L": lab.L, "a": lab.A, "b": lab.B, "out": outKey, "warnings": nonNil(warns),
+			"X": xyz.X, "Y": xyz.Y, "Z": xyz.Z, "L": lab.L, "a": lab.A, "b": lab.B, "out": orNull(out), "warnings": nonNil(warns),
 		})
 	}
 	fmt.Fprintf(e.stdout, "print under %s, %s:\n\n", scorer.Illuminant(), scorer.Observer())
@@ -454,18 +392,14 @@ func mixHalftone(e *env, mm mixing.Model, args []string) error {
 	t.write(e.stdout)
 	fmt.Fprintf(e.stdout, "\n  X %.3f  Y %.3f  Z %.3f\n", xyz.X, xyz.Y, xyz.Z)
 	fmt.Fprintf(e.stdout, "  L* %.2f  a* %.2f  b* %.2f\n", lab.L, lab.A, lab.B)
-	if len(warns) > 0 {
-		fmt.Fprintf(e.stdout, "warnings:\n  %s\n", joinLines(warns))
-	}
-	if out != "" {
-		fmt.Fprintf(e.stdout, "wrote %s\n", out)
-	}
+	printClosing(e.stdout, "", warns, out)
 	return nil
 }
 
 // solveHalftone runs "antipode solve" on a halftone model.
 func solveHalftone(e *env, mm mixing.Model, args []string) error {
-	var target, labArg, illum, obs, scale, inkMax, fix string
+	var target, labArg, scale, inkMax, fix string
+	var vf viewFlags
 	var tac, tol float64
 	var asJSON bool
 	fs := flag.NewFlagSet("solve", flag.ContinueOnError)
@@ -474,18 +408,13 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 	fs.Float64Var(&tac, "tac", 0, "total area coverage limit in `PERCENT` (e.g. 300); default: the model's, or none")
 	fs.StringVar(&inkMax, "ink-max", "", "largest nominal coverage of inks, `ink=fraction,…` (0–1)")
 	fs.StringVar(&fix, "fix", "", "hold inks at nominal coverages, `ink=fraction,…` (0–1), e.g. k=0")
-	fs.StringVar(&illum, "illuminant", "D50", "illuminant of the colour match: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	vf.define(fs, "D50", "illuminant of the colour match")
 	fs.Float64Var(&tol, "tolerance", mixing.DefaultHalftoneTolerance, "`ΔE00` up to which the target counts as reached")
 	fs.StringVar(&scale, "scale", "", "scale of the target's values: `fraction` (0–1) or percent; default: percent when the maximum exceeds 1.5")
 	plotPath := plotFlag(fs)
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
-	pos, err := parseFlags(solveHalftoneCommand, fs, e, args)
-	if err != nil {
+	if err := parseNoArgs(solveHalftoneCommand, fs, e, args); err != nil {
 		return err
-	}
-	if len(pos) > 0 {
-		return usagef("unexpected argument %q", pos[0])
 	}
 	m, err := halftoneModel(mm)
 	if err != nil {
@@ -500,10 +429,8 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 	if !(tol >= 0) || tol > 1e6 {
 		return usagef("--tolerance %v: want a non-negative ΔE00", tol)
 	}
-	switch scale {
-	case "", "fraction", "percent":
-	default:
-		return usagef("--scale %s: want fraction or percent", scale)
+	if err := checkScale(scale); err != nil {
+		return err
 	}
 	set := mixing.HalftoneSolveSettings{TAC: tac, Tolerance: tol}
 	if inkMax != "" {
@@ -516,7 +443,7 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 			return err
 		}
 	}
-	if set.Scorer, err = scorerFlags(e, illum, obs); err != nil {
+	if set.Scorer, err = vf.scorer(e); err != nil {
 		return err
 	}
 	var sol mixing.Solution
@@ -555,10 +482,8 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 		}
 		return fmt.Errorf("%s: %w", what, err)
 	}
-	for i := range sol.Recipes {
-		sol.Recipes[i].Warnings = append(append([]string(nil), warns...), sol.Recipes[i].Warnings...)
-	}
-	if err := plotObjectSolve(e, *plotPath, "reflectance", illum, obs, tgt, sol, m.Reflectance, fileOf(target)); err != nil {
+	prependWarnings(sol, warns)
+	if err := plotObjectSolve(e, *plotPath, "reflectance", vf.illum, vf.obs, tgt, sol, m.Reflectance, fileOf(target)); err != nil {
 		return err
 	}
 	if asJSON {

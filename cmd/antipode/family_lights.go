@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"flag"
 	"fmt"
 	"io"
@@ -10,7 +9,6 @@ import (
 	"strings"
 
 	"github.com/antipode-color/antipode/colorimetry"
-	"github.com/antipode-color/antipode/colorimetry/specio"
 	"github.com/antipode-color/antipode/mixing"
 )
 
@@ -154,25 +152,19 @@ func lightsModel(m mixing.Model) (*mixing.Lights, error) {
 
 // fitLights runs "antipode fit lights".
 func fitLights(e *env, args []string) error {
-	var out, response, obsName string
+	ff := fitFlags{model: "MODEL.json"}
+	var response, obsName string
 	var holdout float64
-	var absolute, asJSON bool
+	var absolute bool
 	fs := flag.NewFlagSet("fit lights", flag.ContinueOnError)
-	fs.StringVar(&out, "out", "", "write the model to `MODEL.json` (required)")
+	ff.define(fs)
 	fs.StringVar(&response, "response", mixing.ResponsePower, "response curve: `power` (w = d^γ) or monotone (Fritsch–Butland through the measured levels)")
 	fs.Float64Var(&holdout, "holdout", 0, "hold out this `FRACTION` (0–0.5) of each channel's ramp, every k-th level by drive, to test the fit")
 	fs.BoolVar(&absolute, "absolute", false, "the spectra are radiometric (e.g. W·sr⁻¹·m⁻²·nm⁻¹): mix and solve print absolute photometric values (Km = 683.002 lm/W)")
 	fs.StringVar(&obsName, "observer", "1931", "standard observer for the report: `1931` (2°) or 1964 (10°)")
-	fs.BoolVar(&asJSON, "json", false, "print the fit report as JSON instead of tables")
-	files, err := parseFlags(fitLightsCommand, fs, e, args)
+	files, err := ff.parse(fitLightsCommand, fs, e, args, "measurement")
 	if err != nil {
 		return err
-	}
-	if len(files) != 1 {
-		return usagef("name one measurement file: %s", fitLightsCommand.usage)
-	}
-	if out == "" {
-		return usagef("--out MODEL.json is required")
 	}
 	if response != mixing.ResponsePower && response != mixing.ResponseMonotone {
 		return usagef("--response %s: want power or monotone", response)
@@ -185,17 +177,9 @@ func fitLights(e *env, args []string) error {
 		return err
 	}
 	path := files[0]
-	var recs []specio.Named
-	if path == "-" {
-		recs, err = specio.NewReader(e.stdin, "-").ReadAll()
-	} else {
-		recs, err = specio.ReadFile(path)
-	}
+	recs, err := readCalibration(e, path, "no channel or drive columns: a lights calibration needs the rows layout (name, channel, drive, [heldout], then wavelengths; see 'antipode fit lights --help')")
 	if err != nil {
 		return err
-	}
-	if len(recs) > 0 && recs[0].Fields == nil {
-		return fmt.Errorf("%s: no channel or drive columns: a lights calibration needs the rows layout (name, channel, drive, [heldout], then wavelengths; see 'antipode fit lights --help')", path)
 	}
 	samples, err := mixing.LightRampsFromNamed(recs, path)
 	if err != nil {
@@ -205,17 +189,17 @@ func fitLights(e *env, args []string) error {
 	if err != nil {
 		return fmt.Errorf("%s: %w", path, err)
 	}
-	if err := saveModel(out, m, files); err != nil {
+	if err := saveModel(ff.out, m, files); err != nil {
 		return err
 	}
 	chans, err := lightsChannelRows(m, obs)
 	if err != nil {
 		return err
 	}
-	if asJSON {
-		return writeJSON(e.stdout, map[string]any{"model": out, "kind": m.Kind(), "units": lightsUnits(m), "channels": chans, "fit": m.Report()})
+	if ff.asJSON {
+		return writeJSON(e.stdout, map[string]any{"model": ff.out, "kind": m.Kind(), "units": lightsUnits(m), "channels": chans, "fit": m.Report()})
 	}
-	printLightsFit(e.stdout, m, chans, path, out)
+	printLightsFit(e.stdout, m, chans, path, ff.out)
 	return nil
 }
 
@@ -332,17 +316,8 @@ func printLightsFit(w io.Writer, m *mixing.Lights, chans []lightsChannelJSON, pa
 			fmt.Sprintf("%.5f", s.RMS), fmt.Sprintf("%.5f", s.MaxAbs), fmt.Sprintf("%.2f", s.DE00), fmtOpt(s.DeltaUVPrime, "%.4f"))
 	}
 	st.write(w)
-	fmt.Fprintf(w, "\nfit:      %d measurements, RMS %.5f, ΔE00 mean %.2f, 95th percentile %.2f, max %.2f\n",
-		r.Training.N, r.RMS, r.Training.Mean, r.Training.P95, r.Training.Max)
-	if r.HeldOut != nil {
-		fmt.Fprintf(w, "held out: %d measurements, ΔE00 mean %.2f, 95th percentile %.2f, max %.2f\n", r.HeldOut.N, r.HeldOut.Mean, r.HeldOut.P95, r.HeldOut.Max)
-	} else {
-		fmt.Fprintln(w, "held out: none (mark measurements with heldout = 1 or use --holdout)")
-	}
-	if len(r.Warnings) > 0 {
-		fmt.Fprintf(w, "\nwarnings:\n  %s\n", strings.Join(r.Warnings, "\n  "))
-	}
-	fmt.Fprintf(w, "\nwrote %s\n", out)
+	printFitSummary(w, r, "measurements", 5, "mark measurements with heldout = 1 or use --holdout")
+	printClosing(w, "\n", r.Warnings, out)
 }
 
 // mixLights runs "antipode mix" on a lights model.
@@ -381,14 +356,8 @@ func mixLights(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return usagef("--amounts: %v", err)
 	}
-	if out != "" {
-		var b bytes.Buffer
-		if err := specio.WriteColumns(&b, []specio.Named{{Name: lightsAmountsLabel(am), Spectrum: spec}}); err != nil {
-			return err
-		}
-		if err := e.writeOut("--out", out, b.Bytes()); err != nil {
-			return err
-		}
+	if err := e.writeSpectrumOut(out, lightsAmountsLabel(am), spec); err != nil {
+		return err
 	}
 	outputs := map[string]float64{}
 	drives := map[string]float64{}
@@ -414,14 +383,10 @@ func mixLights(e *env, mm mixing.Model, args []string) error {
 		eff = ptr(col.Efficacy)
 	}
 	if asJSON {
-		var outKey *string
-		if out != "" {
-			outKey = &out
-		}
 		return writeJSON(e.stdout, map[string]any{
 			"amounts": drives, "outputs": outputs, "units": lightsUnits(m), "observer": obs.Name(),
 			"X": col.XYZ.X, "Y": col.XYZ.Y, "Z": col.XYZ.Z, "x": x, "y": y, "u_prime": u, "v_prime": v,
-			"cct_kelvin": cct, "duv": duv, "efficacy_lm_per_w": eff, "out": outKey, "warnings": nonNil(col.Warnings),
+			"cct_kelvin": cct, "duv": duv, "efficacy_lm_per_w": eff, "out": orNull(out), "warnings": nonNil(col.Warnings),
 		})
 	}
 	w := e.stdout
@@ -440,12 +405,7 @@ func mixLights(e *env, mm mixing.Model, args []string) error {
 	fmt.Fprintf(w, "  x %s  y %s  u′ %s  v′ %s\n", fmtOpt(x, "%.5f"), fmtOpt(y, "%.5f"), fmtOpt(u, "%.5f"), fmtOpt(v, "%.5f"))
 	fmt.Fprintf(w, "  CCT %s K  Duv %s\n", fmtOpt(cct, "%.0f"), fmtOpt(duv, "%+.4f"))
 	fmt.Fprintf(w, "  luminous efficacy of radiation of the channels' light %s lm/W\n", fmtOpt(eff, "%.0f"))
-	if len(col.Warnings) > 0 {
-		fmt.Fprintf(w, "warnings:\n  %s\n", strings.Join(col.Warnings, "\n  "))
-	}
-	if out != "" {
-		fmt.Fprintf(w, "wrote %s\n", out)
-	}
+	printClosing(w, "", col.Warnings, out)
 	return nil
 }
 

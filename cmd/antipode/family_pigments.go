@@ -11,7 +11,6 @@ import (
 	"strings"
 
 	"github.com/antipode-color/antipode/colorimetry"
-	"github.com/antipode-color/antipode/colorimetry/specio"
 	"github.com/antipode-color/antipode/mixing"
 )
 
@@ -179,36 +178,17 @@ func setFlags(fs *flag.FlagSet) map[string]bool {
 
 // readLadders reads the calibration file into ladder samples.
 func readLadders(e *env, path, scale string) ([]mixing.LadderSample, []string, error) {
-	var recs []specio.Named
-	var err error
-	if path == "-" {
-		recs, err = specio.NewReader(e.stdin, "-").ReadAll()
-	} else {
-		recs, err = specio.ReadFile(path)
-	}
+	recs, err := readCalibration(e, path, "no colorant or fraction columns: the pigments calibration needs the rows layout (name, colorant, fraction, [backing], [heldout], then wavelengths; see 'antipode fit pigments --help')")
 	if err != nil {
 		return nil, nil, err
 	}
 	if len(recs) == 0 {
 		return nil, nil, fmt.Errorf("%s: no films", path)
 	}
-	if recs[0].Fields == nil {
-		return nil, nil, fmt.Errorf("%s: no colorant or fraction columns: the pigments calibration needs the rows layout (name, colorant, fraction, [backing], [heldout], then wavelengths; see 'antipode fit pigments --help')", path)
-	}
 	if _, ok := recs[0].Fields["colorant"]; !ok {
 		return nil, nil, fmt.Errorf("%s:%d: no \"colorant\" column (see 'antipode fit pigments --help')", path, recs[0].Line)
 	}
-	var warns []string
-	if scale == "" {
-		scale = "fraction"
-		for _, r := range recs {
-			if v, _ := r.Spectrum.Max(); v > 1.5 {
-				scale = "percent"
-				warns = append(warns, fmt.Sprintf("values taken as percent (line %d reaches %.4g > 1.5); say --scale to choose", r.Line, v))
-				break
-			}
-		}
-	}
+	scale, warns := recordsScale(recs, scale, "values")
 	out := make([]mixing.LadderSample, 0, len(recs))
 	for _, r := range recs {
 		at := fmt.Sprintf("%s:%d", path, r.Line)
@@ -246,41 +226,28 @@ func readLadders(e *env, path, scale string) ([]mixing.LadderSample, []string, e
 
 // fitPigments runs "antipode fit pigments".
 func fitPigments(e *env, args []string) error {
-	var out, white, illum, obs, scale string
+	ff := fitFlags{model: "PIGMENTS.json"}
+	var white, scale string
 	var sf pigmentSurface
-	var asJSON bool
+	var vf viewFlags
 	fs := flag.NewFlagSet("fit pigments", flag.ContinueOnError)
-	fs.StringVar(&out, "out", "", "write the model to `PIGMENTS.json` (required)")
+	ff.define(fs)
 	fs.StringVar(&white, "white", "", "the white colorant's `NAME` (default: the one measured only alone)")
 	sf.flags(fs)
-	fs.StringVar(&illum, "illuminant", "D65", "illuminant for the ΔE00 of the report: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	vf.define(fs, "D65", "illuminant for the ΔE00 of the report")
 	fs.StringVar(&scale, "scale", "", "scale of the reflectances: `fraction` (0–1) or percent; default: percent when a value exceeds 1.5")
-	fs.BoolVar(&asJSON, "json", false, "print the fit report as JSON instead of tables")
-	files, err := parseFlags(fitPigmentsCommand, fs, e, args)
+	files, err := ff.parse(fitPigmentsCommand, fs, e, args, "measurement")
 	if err != nil {
 		return err
 	}
-	if len(files) != 1 {
-		return usagef("name one measurement file: %s", fitPigmentsCommand.usage)
-	}
-	if out == "" {
-		return usagef("--out PIGMENTS.json is required")
-	}
-	switch scale {
-	case "", "fraction", "percent":
-	default:
-		return usagef("--scale %s: want fraction or percent", scale)
+	if err := checkScale(scale); err != nil {
+		return err
 	}
 	sd, err := sf.resolve(setFlags(fs))
 	if err != nil {
 		return err
 	}
-	o, err := observerFlag(obs)
-	if err != nil {
-		return err
-	}
-	ill, illName, err := illuminantFlag(e, illum)
+	o, ill, err := vf.named(e)
 	if err != nil {
 		return err
 	}
@@ -289,23 +256,23 @@ func fitPigments(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	fit, err := mixing.FitPigments(samples, mixing.FitOptions{White: white, Surface: sd, Observer: o, Illuminant: colorimetry.NamedIlluminant{Name: illName, Spectrum: ill}})
+	fit, err := mixing.FitPigments(samples, mixing.FitOptions{White: white, Surface: sd, Observer: o, Illuminant: ill})
 	if err != nil {
 		return fmt.Errorf("%s: %w", path, err)
 	}
 	m := fit.Model
 	m.Fit.Warnings = append(warns, m.Fit.Warnings...)
-	if err := saveModel(out, m, files); err != nil {
+	if err := saveModel(ff.out, m, files); err != nil {
 		return err
 	}
-	if asJSON {
+	if ff.asJSON {
 		cols := make([]map[string]any, 0, len(m.Colorants))
 		for _, c := range m.Colorants {
 			cols = append(cols, map[string]any{"name": c.Name, "u_k_median_relative": medianRel(c.K, fit.UK[c.Name]), "u_s_median_relative": medianRel(c.S, fit.US[c.Name])})
 		}
-		return writeJSON(e.stdout, map[string]any{"model": out, "kind": m.Kind(), "white": m.White, "colorants": cols, "fit": m.Fit})
+		return writeJSON(e.stdout, map[string]any{"model": ff.out, "kind": m.Kind(), "white": m.White, "colorants": cols, "fit": m.Fit})
 	}
-	printPigmentFit(e.stdout, fit, samples, path, out)
+	printPigmentFit(e.stdout, fit, samples, path, ff.out)
 	return nil
 }
 
@@ -354,13 +321,7 @@ func printPigmentFit(w io.Writer, fit *mixing.PigmentFit, samples []mixing.Ladde
 		t.row(s.Name, src.Colorant, frac, src.Backing.String(), set, fmt.Sprintf("%.4f", s.RMS), fmt.Sprintf("%.4f", s.MaxAbs), fmt.Sprintf("%.2f", s.DE00))
 	}
 	t.write(w)
-	fmt.Fprintf(w, "\nfit:      %d films, RMS %.4f, ΔE00 mean %.2f, 95th percentile %.2f, max %.2f\n",
-		r.Training.N, r.RMS, r.Training.Mean, r.Training.P95, r.Training.Max)
-	if r.HeldOut != nil {
-		fmt.Fprintf(w, "held out: %d films, ΔE00 mean %.2f, 95th percentile %.2f, max %.2f\n", r.HeldOut.N, r.HeldOut.Mean, r.HeldOut.P95, r.HeldOut.Max)
-	} else {
-		fmt.Fprintln(w, "held out: none (mark films with heldout = 1)")
-	}
+	printFitSummary(w, r, "films", 4, "mark films with heldout = 1")
 	fmt.Fprintf(w, "\nColorants: unit K and S per unit mass fraction, relative to the white's scattering\n")
 	var ct table
 	ct.header("colorant", "strongest absorption nm", "K there", "S range", "K/S range", "median u(K)", "median u(S)")
@@ -412,33 +373,20 @@ func surfaceText(s mixing.Saunderson) string {
 	return fmt.Sprintf("Saunderson %s, k2 %g, %s", k1, s.K2, spec)
 }
 
-// pigmentsModel asserts the model's type.
-func pigmentsModel(m mixing.Model) (*mixing.Pigments, error) {
-	p, ok := m.(*mixing.Pigments)
-	if !ok {
-		return nil, fmt.Errorf("not a pigments model (kind %q)", m.Kind())
-	}
-	return p, nil
-}
-
 // mixPigments runs "antipode mix" on a pigments model.
 func mixPigments(e *env, mm mixing.Model, args []string) error {
-	var amounts, illum, obs, out string
+	var amounts, out string
+	var vf viewFlags
 	var asJSON bool
 	fs := flag.NewFlagSet("mix", flag.ContinueOnError)
 	fs.StringVar(&amounts, "amounts", "", "mass fractions as `name=fraction,…`")
-	fs.StringVar(&illum, "illuminant", "D65", "illuminant for the colour: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	vf.define(fs, "D65", "illuminant for the colour")
 	fs.StringVar(&out, "out", "", "also write the reflectance to `FILE.csv`")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
-	pos, err := parseFlags(mixPigmentsCommand, fs, e, args)
-	if err != nil {
+	if err := parseNoArgs(mixPigmentsCommand, fs, e, args); err != nil {
 		return err
 	}
-	if len(pos) > 0 {
-		return usagef("unexpected argument %q", pos[0])
-	}
-	p, err := pigmentsModel(mm)
+	p, err := modelAs[*mixing.Pigments](mm, "pigments")
 	if err != nil {
 		return err
 	}
@@ -446,7 +394,7 @@ func mixPigments(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return err
 	}
-	sc, err := scorerFlags(e, illum, obs)
+	sc, err := vf.scorer(e)
 	if err != nil {
 		return err
 	}
@@ -462,26 +410,12 @@ func mixPigments(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return usagef("--amounts: %v", err)
 	}
-	lab, err := sc.ObjectLab(r)
+	xyz, lab, err := objectColour(sc, r)
 	if err != nil {
 		return err
 	}
-	w, err := sc.ObjectWeights(r.Grid())
-	if err != nil {
+	if err := e.writeSpectrumOut(out, "mix", r); err != nil {
 		return err
-	}
-	xyz, err := w.XYZ(r)
-	if err != nil {
-		return err
-	}
-	if out != "" {
-		var b strings.Builder
-		if err := specio.WriteColumns(&b, []specio.Named{{Name: "mix", Spectrum: r}}); err != nil {
-			return err
-		}
-		if err := e.writeOut("--out", out, []byte(b.String())); err != nil {
-			return err
-		}
 	}
 	lch := lab.LCh()
 	if asJSON {
@@ -520,15 +454,15 @@ func amountText(am []mixing.Amount) string {
 
 // recipeFlags are the flags shared by solve and correct.
 type recipeFlags struct {
-	illum, obs, also, only, scale string
-	colorants, alternatives       int
-	tol, metaW, metaLimit         float64
-	spectral                      bool
+	viewFlags
+	also, only, scale       string
+	colorants, alternatives int
+	tol, metaW, metaLimit   float64
+	spectral                bool
 }
 
 func (r *recipeFlags) common(fs *flag.FlagSet) {
-	fs.StringVar(&r.illum, "illuminant", "D65", "primary illuminant, under which ΔE00 is minimised: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&r.obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	r.define(fs, "D65", "primary illuminant, under which ΔE00 is minimised")
 	fs.StringVar(&r.also, "also", "", "secondary illuminants for the metamerism index, comma-separated CIE `NAMES` (e.g. A,F11)")
 	fs.Float64Var(&r.tol, "tolerance", mixing.DefaultPigmentTolerance, "`ΔE00` up to which the target counts as reached")
 	fs.StringVar(&r.scale, "scale", "", "scale of the spectra given: `fraction` (0–1) or percent; default: percent when the maximum exceeds 1.5")
@@ -546,16 +480,12 @@ func (r *recipeFlags) search(fs *flag.FlagSet) {
 // options turns the flags into recipe options.
 func (r *recipeFlags) options(e *env) (mixing.RecipeOptions, error) {
 	var o mixing.RecipeOptions
-	obs, err := observerFlag(r.obs)
-	if err != nil {
-		return o, err
-	}
-	ill, name, err := illuminantFlag(e, r.illum)
+	obs, ill, err := r.named(e)
 	if err != nil {
 		return o, err
 	}
 	o.Observer = obs
-	o.Illuminant = colorimetry.NamedIlluminant{Name: name, Spectrum: ill}
+	o.Illuminant = ill
 	if strings.TrimSpace(r.also) != "" {
 		for _, n := range strings.Split(r.also, ",") {
 			n = strings.TrimSpace(n)
@@ -570,10 +500,8 @@ func (r *recipeFlags) options(e *env) (mixing.RecipeOptions, error) {
 		return o, usagef("--tolerance %v: want a positive ΔE00", r.tol)
 	}
 	o.Tolerance = r.tol
-	switch r.scale {
-	case "", "fraction", "percent":
-	default:
-		return o, usagef("--scale %s: want fraction or percent", r.scale)
+	if err := checkScale(r.scale); err != nil {
+		return o, err
 	}
 	if r.colorants < 1 {
 		return o, usagef("--colorants %d: want 1 or more", r.colorants)
@@ -660,14 +588,10 @@ func solvePigments(e *env, mm mixing.Model, args []string) error {
 	rf.search(fs)
 	plotPath := plotFlag(fs)
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
-	pos, err := parseFlags(solvePigmentsCommand, fs, e, args)
-	if err != nil {
+	if err := parseNoArgs(solvePigmentsCommand, fs, e, args); err != nil {
 		return err
 	}
-	if len(pos) > 0 {
-		return usagef("unexpected argument %q", pos[0])
-	}
-	p, err := pigmentsModel(mm)
+	p, err := modelAs[*mixing.Pigments](mm, "pigments")
 	if err != nil {
 		return err
 	}
@@ -704,9 +628,7 @@ func solvePigments(e *env, mm mixing.Model, args []string) error {
 			return solveError(what, err)
 		}
 	}
-	for i := range sol.Recipes {
-		sol.Recipes[i].Warnings = append(append([]string(nil), warns...), sol.Recipes[i].Warnings...)
-	}
+	prependWarnings(sol, warns)
 	if err := plotObjectSolve(e, *plotPath, "reflectance", rf.illum, rf.obs, tgt, sol, p.Reflectance, fileOf(target)); err != nil {
 		return err
 	}

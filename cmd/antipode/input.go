@@ -22,13 +22,7 @@ type spectrumIn struct {
 // readSpectra reads every spectrum of path ("-" is standard input), in any
 // layout the specio package recognises by content.
 func readSpectra(e *env, path string) ([]spectrumIn, error) {
-	var list []specio.Named
-	var err error
-	if path == "-" {
-		list, err = specio.NewReader(e.stdin, "-").ReadAll()
-	} else {
-		list, err = specio.ReadFile(path)
-	}
+	list, err := readRecords(e, path)
 	if err != nil {
 		return nil, err
 	}
@@ -37,6 +31,15 @@ func readSpectra(e *env, path string) ([]spectrumIn, error) {
 		out[i] = spectrumIn{name: n.Name, file: path, line: n.Line, s: n.Spectrum}
 	}
 	return out, nil
+}
+
+// readRecords reads every record of path ("-" is standard input) as the
+// specio package gives them, with their fields.
+func readRecords(e *env, path string) ([]specio.Named, error) {
+	if path == "-" {
+		return specio.NewReader(e.stdin, "-").ReadAll()
+	}
+	return specio.ReadFile(path)
 }
 
 // selectColumns keeps the spectra named in the comma-separated list names

@@ -66,21 +66,26 @@ colorant per part of paint by mass.`,
 	})
 }
 
-// loadPigments loads a model file that must be a pigments model.
-func loadPigments(cmd string, args []string) (*mixing.Pigments, string, []string, error) {
+// loadPigments loads the model file of the command cmd, which must be a
+// pigments model, and returns the other arguments; it prints cmd's help
+// for --help before the model file.
+func loadPigments(e *env, cmd string, args []string) (*mixing.Pigments, []string, error) {
 	path, rest, err := modelArg(cmd, args)
 	if err != nil {
-		return nil, "", nil, err
+		if err == errHelp {
+			printCommandHelp(e.stdout, commands[cmd], nil)
+		}
+		return nil, nil, err
 	}
 	m, err := loadModel(path)
 	if err != nil {
-		return nil, "", nil, err
+		return nil, nil, err
 	}
 	p, ok := m.(*mixing.Pigments)
 	if !ok {
-		return nil, "", nil, fmt.Errorf("%s: a %s model; %s needs a pigments model (antipode fit pigments)", path, m.Kind(), cmd)
+		return nil, nil, fmt.Errorf("%s: a %s model; %s needs a pigments model (antipode fit pigments)", path, m.Kind(), cmd)
 	}
-	return p, path, rest, nil
+	return p, rest, nil
 }
 
 // readRecipe reads RECIPE.json: solve or correct output (first recipe), or
@@ -124,11 +129,8 @@ func readRecipe(path string) ([]mixing.Amount, error) {
 
 func runCorrect(e *env, args []string) error {
 	c := commands["correct"]
-	p, _, rest, err := loadPigments("correct", args)
+	p, rest, err := loadPigments(e, "correct", args)
 	if err != nil {
-		if err == errHelp {
-			printCommandHelp(e.stdout, c, nil)
-		}
 		return err
 	}
 	var rf recipeFlags
@@ -140,12 +142,8 @@ func runCorrect(e *env, args []string) error {
 	fs.StringVar(&target, "target", "", "target reflectance: a spectral `FILE`, or FILE:NAME")
 	rf.common(fs)
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
-	pos, err := parseFlags(c, fs, e, rest)
-	if err != nil {
+	if err := parseNoArgs(c, fs, e, rest); err != nil {
 		return err
-	}
-	if len(pos) > 0 {
-		return usagef("unexpected argument %q", pos[0])
 	}
 	if recipe == "" {
 		return usagef("--recipe RECIPE.json is required")
@@ -248,40 +246,29 @@ func labMap(l colorimetry.Lab) map[string]float64 {
 
 func runNeutralize(e *env, args []string) error {
 	c := commands["neutralize"]
-	p, _, rest, err := loadPigments("neutralize", args)
+	p, rest, err := loadPigments(e, "neutralize", args)
 	if err != nil {
-		if err == errHelp {
-			printCommandHelp(e.stdout, c, nil)
-		}
 		return err
 	}
-	var paint, illum, obs, scale string
+	var paint, scale string
+	var vf viewFlags
 	var asJSON bool
 	fs := flag.NewFlagSet("neutralize", flag.ContinueOnError)
 	fs.StringVar(&paint, "paint", "", "the paint: a colorant `NAME` of the model, or a measured reflectance FILE or FILE:NAME")
-	fs.StringVar(&illum, "illuminant", "D65", "illuminant for the chroma: a CIE `NAME` (see 'antipode illuminants') or a FILE")
-	fs.StringVar(&obs, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
+	vf.define(fs, "D65", "illuminant for the chroma")
 	fs.StringVar(&scale, "scale", "", "scale of a measured paint: `fraction` (0–1) or percent; default: percent when the maximum exceeds 1.5")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
-	pos, err := parseFlags(c, fs, e, rest)
-	if err != nil {
+	if err := parseNoArgs(c, fs, e, rest); err != nil {
 		return err
-	}
-	if len(pos) > 0 {
-		return usagef("unexpected argument %q", pos[0])
 	}
 	if paint == "" {
 		return usagef("--paint NAME or FILE is required")
 	}
-	o, err := observerFlag(obs)
+	o, ill, err := vf.named(e)
 	if err != nil {
 		return err
 	}
-	ill, illName, err := illuminantFlag(e, illum)
-	if err != nil {
-		return err
-	}
-	opt := mixing.NeutralOptions{Observer: o, Illuminant: colorimetry.NamedIlluminant{Name: illName, Spectrum: ill}}
+	opt := mixing.NeutralOptions{Observer: o, Illuminant: ill}
 	var res mixing.Neutralisation
 	if isColorant(p, paint) {
 		res, err = p.Neutralise(paint, opt)
@@ -300,7 +287,7 @@ func runNeutralize(e *env, args []string) error {
 		return err
 	}
 	if asJSON {
-		out := neutralJSON{Paint: res.Paint, PaintLab: labMap(res.PaintLab), PaintChroma: res.PaintChroma, Illuminant: illName, Observer: o.Name(), Warnings: nonNil(res.Warnings), Candidates: []neutralCandJSON{}}
+		out := neutralJSON{Paint: res.Paint, PaintLab: labMap(res.PaintLab), PaintChroma: res.PaintChroma, Illuminant: ill.Name, Observer: o.Name(), Warnings: nonNil(res.Warnings), Candidates: []neutralCandJSON{}}
 		for _, n := range res.Candidates {
 			cj := neutralCandJSON{Colorant: n.Colorant, Fraction: n.Fraction, Chroma: n.Chroma, Lab: labMap(n.Lab), Interior: n.Interior}
 			if !math.IsInf(n.Ratio, 0) {
@@ -318,7 +305,7 @@ func runNeutralize(e *env, args []string) error {
 		return writeJSON(e.stdout, out)
 	}
 	lch := res.PaintLab.LCh()
-	fmt.Fprintf(e.stdout, "Neutralising %s: L* %.1f, C*ab %.1f, h_ab %.0f° under %s, %s\n", res.Paint, res.PaintLab.L, lch.C, lch.H, illName, o.Name())
+	fmt.Fprintf(e.stdout, "Neutralising %s: L* %.1f, C*ab %.1f, h_ab %.0f° under %s, %s\n", res.Paint, res.PaintLab.L, lch.C, lch.H, ill.Name, o.Name())
 	if res.Recipe != nil {
 		fmt.Fprintf(e.stdout, "(scattering estimated from the matching recipe %s)\n", amountText(res.Recipe))
 	}
