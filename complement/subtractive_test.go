@@ -71,7 +71,6 @@ func TestCheckSubtractive(t *testing.T) {
 		{"amber and its neutralising partner", amber, grey, complement.Options{}, complement.Neutral, 12, 0},
 		{"same, neutral limit Y 10", amber, grey, complement.Options{NeutralY: 10}, complement.None, 12, 0},
 		{"same, black limit Y 15", amber, grey, complement.Options{BlackY: 15, NeutralY: 20}, complement.Black, 12, 0},
-		{"same, chroma limit near 0", amber, grey, complement.Options{NeutralChroma: 1e-300}, complement.None, 12, 0},
 	} {
 		r, err := c.CheckSubtractive(tc.a, tc.b, tc.opt)
 		if err != nil {
@@ -89,6 +88,25 @@ func TestCheckSubtractive(t *testing.T) {
 		if r.StackChroma < tc.minChrom || r.Verdict != tc.want {
 			t.Errorf("%s: %+v, want verdict %s", tc.name, r, tc.want)
 		}
+	}
+
+	// A partner that leaves a faint tint (a ±5 % tilt across the
+	// spectrum): neutral under the default chroma limit of 2, none under a
+	// limit below the tint's chroma.
+	tinted := onGrid(t, g, func(nm float64) float64 { return 0.12 / amber.At(nm) * (1 + (nm-580)/4000) })
+	r, err := c.CheckSubtractive(amber, tinted, complement.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Verdict != complement.Neutral || !(r.StackChroma > 0.05 && r.StackChroma < 2) {
+		t.Fatalf("tinted partner: %+v, want neutral with 0.05 < C*ab < 2", r)
+	}
+	r2, err := c.CheckSubtractive(amber, tinted, complement.Options{NeutralChroma: r.StackChroma / 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r2.Verdict != complement.None {
+		t.Errorf("tinted partner, chroma limit %g: %+v, want verdict none", r.StackChroma/2, r2)
 	}
 }
 

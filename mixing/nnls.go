@@ -113,11 +113,33 @@ func boundedLS(op string, a mat.Matrix, b, lo, hi []float64, maxIter int) ([]flo
 	if maxIter <= 0 {
 		maxIter = 10*n + 100
 	}
-	s := &lsActiveSet{op: op, a: ad, b: b, lo: lo, hi: hi, m: m, n: n, maxIter: maxIter,
-		x: make([]float64, n), state: make([]int8, n), r: make([]float64, m), w: make([]float64, n)}
+	// With more rows than columns, solve the equivalent n-row problem:
+	// the QR factorisation of [A | b] gives A = Q·R and Qᵀb = (c, ρ, 0…),
+	// and ‖A·x − b‖² = ‖R·x − c‖² + ρ² for every x, since Q is orthogonal
+	// (Lawson & Hanson 1974, ch. 23 and 25: the same reduction for
+	// sequential processing). The subproblems then have n rows, not m.
+	rows, rhs, rest2 := ad, b, 0.0
+	if m > n {
+		aug := mat.NewDense(m, n+1, nil)
+		aug.Slice(0, m, 0, n).(*mat.Dense).Copy(ad)
+		aug.SetCol(n, b)
+		var qr mat.QR
+		qr.Factorize(aug)
+		var r mat.Dense
+		qr.RTo(&r)
+		rows = mat.DenseCopyOf(r.Slice(0, n, 0, n))
+		rhs = make([]float64, n)
+		for i := range rhs {
+			rhs[i] = r.At(i, n)
+		}
+		rest2 = r.At(n, n) * r.At(n, n)
+	}
+	k, _ := rows.Dims()
+	s := &lsActiveSet{op: op, a: rows, b: rhs, lo: lo, hi: hi, m: k, n: n, mTol: m, bNorm: lsNorm(b), maxIter: maxIter,
+		x: make([]float64, n), state: make([]int8, n), r: make([]float64, k), w: make([]float64, n)}
 	err := s.run()
 	s.residual()
-	rnorm := math.Sqrt(lsDot(s.r, s.r))
+	rnorm := math.Sqrt(lsDot(s.r, s.r) + rest2)
 	if err != nil {
 		var ce *ConvergenceError
 		if errors.As(err, &ce) {
@@ -132,9 +154,11 @@ func boundedLS(op string, a mat.Matrix, b, lo, hi []float64, maxIter int) ([]flo
 // lsActiveSet holds the working state of boundedLS.
 type lsActiveSet struct {
 	op        string
-	a         *mat.Dense
-	b, lo, hi []float64
-	m, n      int
+	a         *mat.Dense // A, or R of its QR factorisation when A has more rows than columns
+	b, lo, hi []float64  // b, or the first n entries of Qᵀb
+	m, n      int        // rows and columns of a
+	mTol      int        // rows of the caller's A, for the tolerances
+	bNorm     float64    // ‖b‖ of the caller's b, for the tolerances
 	maxIter   int
 	iter      int
 	x         []float64
@@ -180,7 +204,7 @@ func (s *lsActiveSet) run() error {
 		// ε·‖A‖·(‖A‖·‖x‖ + ‖b‖) per entry, scaled by the problem size
 		// (Lawson & Hanson ch. 23 leave the tolerance to the user; this
 		// choice is common practice (no source)).
-		tol := 10 * float64(max(s.m, s.n)) * lsEps * s.normA * (s.normA*lsNorm(s.x) + lsNorm(s.b))
+		tol := 10 * float64(max(s.mTol, s.n)) * lsEps * s.normA * (s.normA*lsNorm(s.x) + s.bNorm)
 		t, best := -1, tol
 		for j := range s.n {
 			if rejected[j] {
@@ -334,7 +358,7 @@ func (s *lsActiveSet) solveFree() ([]int, []float64) {
 	vals := svd.Values(nil)
 	rank := 0
 	if len(vals) > 0 && vals[0] > 0 {
-		cut := float64(max(s.m, len(cols))) * lsEps * vals[0]
+		cut := float64(max(s.mTol, len(cols))) * lsEps * vals[0]
 		for _, v := range vals {
 			if v > cut {
 				rank++

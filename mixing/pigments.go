@@ -1,11 +1,14 @@
 package mixing
 
 import (
+	"encoding/binary"
 	"encoding/json"
 	"errors"
 	"fmt"
+	"hash/fnv"
 	"math"
 	"strings"
+	"sync"
 
 	"github.com/antipode-color/antipode/colorimetry"
 )
@@ -328,9 +331,63 @@ type effWeights struct {
 	full    *colorimetry.Weights // the weights on the computation grid
 }
 
-// newEffWeights folds the object weights of obs and ill onto the grid g by
-// computing the XYZ of each unit spectrum on g.
+// effCacheKey identifies folded weights: the observer (immutable, so its
+// identity will do), the illuminant by name and by a hash of its grid and
+// values (two files may share a name), and the model grid.
+type effCacheKey struct {
+	obs     *colorimetry.Observer
+	ill     string
+	illHash uint64
+	grid    colorimetry.Grid
+}
+
+// effCache keeps folded weights between solves: folding resamples one unit
+// spectrum per sample, which costs as much as a whole recipe search of a
+// few combinations. The entries are immutable; the cache is bounded.
+var effCache struct {
+	sync.Mutex
+	m map[effCacheKey]*effWeights
+}
+
+const effCacheMax = 64
+
+// newEffWeights returns the object weights of obs and ill folded onto the
+// grid g, computing the XYZ of each unit spectrum on g the first time and
+// reusing the result afterwards. The result must not be modified.
 func newEffWeights(obs *colorimetry.Observer, ill colorimetry.NamedIlluminant, g colorimetry.Grid) (*effWeights, error) {
+	h := fnv.New64a()
+	var buf [8]byte
+	for _, v := range []float64{ill.Spectrum.Grid().Start, ill.Spectrum.Grid().Step, float64(ill.Spectrum.Len())} {
+		binary.LittleEndian.PutUint64(buf[:], math.Float64bits(v))
+		h.Write(buf[:])
+	}
+	for i := range ill.Spectrum.Len() {
+		binary.LittleEndian.PutUint64(buf[:], math.Float64bits(ill.Spectrum.Value(i)))
+		h.Write(buf[:])
+	}
+	key := effCacheKey{obs: obs, ill: ill.Name, illHash: h.Sum64(), grid: g}
+	effCache.Lock()
+	e, ok := effCache.m[key]
+	effCache.Unlock()
+	if ok {
+		return e, nil
+	}
+	e, err := foldWeights(obs, ill, g)
+	if err != nil {
+		return nil, err
+	}
+	effCache.Lock()
+	if effCache.m == nil || len(effCache.m) >= effCacheMax {
+		effCache.m = make(map[effCacheKey]*effWeights)
+	}
+	effCache.m[key] = e
+	effCache.Unlock()
+	return e, nil
+}
+
+// foldWeights folds the object weights of obs and ill onto the grid g by
+// computing the XYZ of each unit spectrum on g.
+func foldWeights(obs *colorimetry.Observer, ill colorimetry.NamedIlluminant, g colorimetry.Grid) (*effWeights, error) {
 	w, err := colorimetry.NewObjectWeights(obs, ill.Spectrum, colorimetry.ComputationGrid(g))
 	if err != nil {
 		return nil, fmt.Errorf("illuminant %s: %w", ill.Name, err)
