@@ -93,7 +93,7 @@ func runCompare(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	ill, illName, err := illuminantFlag(e, illum)
+	ill, illName, err := illuminantFlag(e, "--illuminant", illum)
 	if err != nil {
 		return err
 	}
@@ -101,9 +101,9 @@ func runCompare(e *env, args []string) error {
 	if also != "" {
 		for _, name := range strings.Split(also, ",") {
 			name = strings.TrimSpace(name)
-			s, n, err := illuminantFlag(e, name)
+			s, n, err := illuminantFlag(e, "--also", name)
 			if err != nil {
-				return usagef("--also: %v", err)
+				return err
 			}
 			tests = append(tests, colorimetry.NamedIlluminant{Name: n, Spectrum: s})
 		}

@@ -91,7 +91,7 @@ func runComplement(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	ill, illName, err := illuminantFlag(e, illum)
+	ill, illName, err := illuminantFlag(e, "--illuminant", illum)
 	if err != nil {
 		return err
 	}

@@ -148,6 +148,21 @@ func runDescribe(e *env, args []string) error {
 	if o.absolute && o.as != "light" {
 		return usagef("--absolute applies to --as light only")
 	}
+	// Flags that the kind of spectrum makes meaningless are refused rather
+	// than silently ignored: a mistyped --white would otherwise pass.
+	var misplaced error
+	fs.Visit(func(f *flag.Flag) {
+		switch {
+		case misplaced != nil:
+		case (f.Name == "white" || f.Name == "cct-method") && o.as != "light":
+			misplaced = usagef("--%s applies to --as light only (for reflectance and transmittance the illuminant is the white)", f.Name)
+		case f.Name == "illuminant" && o.as == "light":
+			misplaced = usagef("--illuminant applies to reflectance and transmittance; a light is its own spectrum (for dominant wavelength use --white)")
+		}
+	})
+	if misplaced != nil {
+		return misplaced
+	}
 	d, err := newDescriber(e, o)
 	if err != nil {
 		return err
@@ -300,7 +315,7 @@ func newDescriber(e *env, o describeOpts) (*describer, error) {
 	var illName string
 	if o.as != "light" {
 		var err error
-		ill, illName, err = illuminantFlag(e, o.illuminant)
+		ill, illName, err = illuminantFlag(e, "--illuminant", o.illuminant)
 		if err != nil {
 			return nil, err
 		}
@@ -340,7 +355,7 @@ func newDescriberIll(e *env, o describeOpts, ill colorimetry.Spectrum, illName s
 		if d.planck, err = colorimetry.NewPlanckianTable(obs, colorimetry.C2); err != nil {
 			return nil, err
 		}
-		ws, name, err := illuminantFlag(e, o.white)
+		ws, name, err := illuminantFlag(e, "--white", o.white)
 		if err != nil {
 			return nil, usagef("--white %s: %v", o.white, err)
 		}

@@ -66,7 +66,7 @@ func (v *viewFlags) named(e *env) (*colorimetry.Observer, colorimetry.NamedIllum
 	if err != nil {
 		return nil, colorimetry.NamedIlluminant{}, err
 	}
-	ill, name, err := illuminantFlag(e, v.illum)
+	ill, name, err := illuminantFlag(e, "--illuminant", v.illum)
 	if err != nil {
 		return nil, colorimetry.NamedIlluminant{}, err
 	}

@@ -489,9 +489,9 @@ func (r *recipeFlags) options(e *env) (mixing.RecipeOptions, error) {
 	if strings.TrimSpace(r.also) != "" {
 		for _, n := range strings.Split(r.also, ",") {
 			n = strings.TrimSpace(n)
-			s, sn, err := illuminantFlag(e, n)
+			s, sn, err := illuminantFlag(e, "--also", n)
 			if err != nil {
-				return o, usagef("--also %s: %v", n, err)
+				return o, err
 			}
 			o.Also = append(o.Also, colorimetry.NamedIlluminant{Name: sn, Spectrum: s})
 		}

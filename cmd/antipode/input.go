@@ -79,23 +79,24 @@ func observerFlag(name string) (*colorimetry.Observer, error) {
 	return o, nil
 }
 
-// illuminantFlag resolves --illuminant: a CIE name (see "antipode
+// illuminantFlag resolves the value name of flag (--illuminant, --also,
+// --white; messages name it): a CIE name (see "antipode
 // illuminants"), a file with one spectrum, or FILE:NAME for one spectrum of a
 // file.
-func illuminantFlag(e *env, name string) (colorimetry.Spectrum, string, error) {
+func illuminantFlag(e *env, flag, name string) (colorimetry.Spectrum, string, error) {
 	s, err := cie.Illuminant(name)
 	if err == nil {
 		return s, name, nil
 	}
 	if _, statErr := os.Stat(fileOf(name)); statErr != nil {
-		return colorimetry.Spectrum{}, "", usagef("--illuminant %s: not a known illuminant (see 'antipode illuminants') and not a file", name)
+		return colorimetry.Spectrum{}, "", usagef("%s %s: not a known illuminant (see 'antipode illuminants') and not a file", flag, name)
 	}
 	list, rerr := spectrumArg(e, name)
 	if rerr != nil {
 		return colorimetry.Spectrum{}, "", rerr
 	}
 	if len(list) != 1 {
-		return colorimetry.Spectrum{}, "", usagef("--illuminant %s: the file holds %d spectra; name one as FILE:NAME", name, len(list))
+		return colorimetry.Spectrum{}, "", usagef("%s %s: the file holds %d spectra; name one as FILE:NAME", flag, name, len(list))
 	}
 	// A measured light: zero outside its measured range.
 	return list[0].s.WithExtrap(colorimetry.ExtrapZero), list[0].name, nil

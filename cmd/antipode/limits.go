@@ -71,7 +71,7 @@ func runLimits(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	ill, illName, err := illuminantFlag(e, illum)
+	ill, illName, err := illuminantFlag(e, "--illuminant", illum)
 	if err != nil {
 		return err
 	}
@@ -221,7 +221,7 @@ func runWavelengths(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	ill, _, err := illuminantFlag(e, illum)
+	ill, _, err := illuminantFlag(e, "--illuminant", illum)
 	if err != nil {
 		return err
 	}

@@ -357,3 +357,32 @@ func TestDescribeStreams(t *testing.T) {
 		t.Errorf("table: %d header lines, %d rows; want 1 and %d", headers, data, n)
 	}
 }
+
+// TestDescribeMisplacedFlags checks that a flag the kind of spectrum makes
+// meaningless is refused (exit 2, naming the flag) instead of being
+// ignored, so that a mistyped --white cannot pass unnoticed; the same flags
+// with the right kind work.
+func TestDescribeMisplacedFlags(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		args []string
+		flag string
+	}{
+		{[]string{"describe", "demo/paints.csv", "--white", "nope"}, "--white"},
+		{[]string{"describe", "demo/paints.csv", "--cct-method", "robertson"}, "--cct-method"},
+		{[]string{"describe", "demo/lamps.csv", "--as", "light", "--illuminant", "A"}, "--illuminant"},
+	} {
+		code, out, errs := runCLI(t, "", tc.args...)
+		if code != 2 || out != "" || !strings.Contains(errs, tc.flag+" applies to") {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q", tc.args, code, out, errs)
+		}
+	}
+	for _, args := range [][]string{
+		{"describe", "demo/lamps.csv", "--as", "light", "--white", "D65", "--cct-method", "robertson"},
+		{"describe", "demo/paints.csv", "--illuminant", "A"},
+	} {
+		if code, _, errs := runCLI(t, "", args...); code != 0 {
+			t.Errorf("%v: exit %d, %s", args, code, errs)
+		}
+	}
+}

@@ -292,7 +292,7 @@ func scorerFlags(e *env, illum, obs string) (*mixing.Scorer, error) {
 	if err != nil {
 		return nil, err
 	}
-	ill, name, err := illuminantFlag(e, illum)
+	ill, name, err := illuminantFlag(e, "--illuminant", illum)
 	if err != nil {
 		return nil, err
 	}

@@ -140,7 +140,7 @@ func (p *pairFlags) resolve(e *env) (complement.Mode, *complement.Conditions, st
 	if err != nil {
 		return 0, nil, "", err
 	}
-	ill, name, err := illuminantFlag(e, p.illuminant)
+	ill, name, err := illuminantFlag(e, "--illuminant", p.illuminant)
 	if err != nil {
 		return 0, nil, "", err
 	}
@@ -259,9 +259,9 @@ func runPair(e *env, args []string) error {
 	if also != "" {
 		ills := []colorimetry.NamedIlluminant{{Name: illName, Spectrum: cond.Illuminant()}}
 		for _, name := range strings.Split(also, ",") {
-			s, n, err := illuminantFlag(e, strings.TrimSpace(name))
+			s, n, err := illuminantFlag(e, "--also", strings.TrimSpace(name))
 			if err != nil {
-				return usagef("--also: %v", err)
+				return err
 			}
 			ills = append(ills, colorimetry.NamedIlluminant{Name: n, Spectrum: s})
 		}

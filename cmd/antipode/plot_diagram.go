@@ -942,7 +942,7 @@ func runPlotDiagram(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	ill, illName, err := illuminantFlag(e, illum)
+	ill, illName, err := illuminantFlag(e, "--illuminant", illum)
 	if err != nil {
 		return err
 	}

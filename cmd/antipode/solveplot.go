@@ -26,7 +26,7 @@ func plotObjectSolve(e *env, path, as, illum, obs string, target *namedSpectrum,
 	if err != nil {
 		return err
 	}
-	ill, name, err := illuminantFlag(e, illum)
+	ill, name, err := illuminantFlag(e, "--illuminant", illum)
 	if err != nil {
 		return err
 	}
