@@ -19,7 +19,10 @@ func init() {
 angle, the largest chroma C*ab any reflectance can reach under the illuminant,
 with the optimal reflectance that reaches it (reflectance 1 between the edge
 wavelengths and 0 elsewhere — a band-pass — or the reverse, a band-stop;
-each band-pass has its band-stop as exact complement). With --check FILE,
+each band-pass has its band-stop as exact complement). For orange-reds the
+limit may take two to four bands instead: from about 550 nm on, the
+tabulated spectrum locus is nearly straight and not quite convex, so a
+line can cross it more than twice. With --check FILE,
 says for each reflectance in FILE whether it is realisable and how its chroma
 compares with the largest possible at its lightness and hue.`,
 		example: `  $ antipode limits --illuminant D65 --lightness 50 --hues 12
