@@ -446,3 +446,46 @@ func BenchmarkCCT(b *testing.B) {
 		sinkCCT = c
 	}
 }
+
+// TestRobertsonTableFromPlanck reproduces u, v of the Robertson (1968)
+// table typed into the library from Planck's law and the 1931 observer
+// (1 nm, 360–830 nm, light weights, XYZ → u, v) to the printed 5 decimals
+// (half a unit, 5e-6). Row 0 MK⁻¹ is the limit T → ∞, where the spectral
+// power goes as λ⁻⁴.
+func TestRobertsonTableFromPlanck(t *testing.T) {
+	t.Parallel()
+	w, err := colorimetry.NewLightWeights(cie.CIE1931(), colorimetry.Grid1nm)
+	if err != nil {
+		t.Fatal(err)
+	}
+	g := colorimetry.Grid1nm
+	var du, dv float64
+	for _, r := range colorimetry.RobertsonRows() {
+		var s colorimetry.Spectrum
+		if r[0] == 0 {
+			v := make([]float64, g.N)
+			for i := range v {
+				v[i] = math.Pow(g.Wavelength(i)/560, -4)
+			}
+			s, err = colorimetry.NewSpectrumOnGrid(g, v, colorimetry.Options{})
+		} else {
+			s, err = colorimetry.Blackbody(1e6/r[0], g, colorimetry.C2)
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		c, err := w.XYZ(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		uv, err := c.UV()
+		if err != nil {
+			t.Fatal(err)
+		}
+		du, dv = math.Max(du, math.Abs(uv.U-r[1])), math.Max(dv, math.Abs(uv.V-r[2]))
+		if !scalar.EqualWithinAbs(uv.U, r[1], 5e-6) || !scalar.EqualWithinAbs(uv.V, r[2], 5e-6) {
+			t.Errorf("%g MK⁻¹: u, v = %.6f, %.6f, Robertson (1968) %.5f, %.5f", r[0], uv.U, uv.V, r[1], r[2])
+		}
+	}
+	t.Logf("Robertson (1968) u, v: largest |Δu| %.2g, |Δv| %.2g", du, dv)
+}
