@@ -454,14 +454,11 @@ func BenchmarkCCT(b *testing.B) {
 // power goes as λ⁻⁴.
 func TestRobertsonTableFromPlanck(t *testing.T) {
 	t.Parallel()
-	w, err := colorimetry.NewLightWeights(cie.CIE1931(), colorimetry.Grid1nm)
-	if err != nil {
-		t.Fatal(err)
-	}
 	g := colorimetry.Grid1nm
 	var du, dv float64
 	for _, r := range colorimetry.RobertsonRows() {
 		var s colorimetry.Spectrum
+		var err error
 		if r[0] == 0 {
 			v := make([]float64, g.N)
 			for i := range v {
@@ -474,14 +471,7 @@ func TestRobertsonTableFromPlanck(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		c, err := w.XYZ(s)
-		if err != nil {
-			t.Fatal(err)
-		}
-		uv, err := c.UV()
-		if err != nil {
-			t.Fatal(err)
-		}
+		uv := lightUV(t, cie.CIE1931(), s, g)
 		du, dv = math.Max(du, math.Abs(uv.U-r[1])), math.Max(dv, math.Abs(uv.V-r[2]))
 		if !scalar.EqualWithinAbs(uv.U, r[1], 5e-6) || !scalar.EqualWithinAbs(uv.V, r[2], 5e-6) {
 			t.Errorf("%g MK⁻¹: u, v = %.6f, %.6f, Robertson (1968) %.5f, %.5f", r[0], uv.U, uv.V, r[1], r[2])
