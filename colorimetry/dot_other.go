@@ -13,3 +13,6 @@ func xyzBatch(dst, v, wx, wy, wz []float64) { xyzBatchGeneric(dst, v, wx, wy, wz
 func xyzBatch32(dst []float64, v []float32, wx, wy, wz []float64) {
 	xyzBatchGeneric(dst, v, wx, wy, wz)
 }
+
+// kernelChunk is unused without an assembly kernel; the tests refer to it.
+const kernelChunk = 2048

@@ -106,3 +106,34 @@ func TestXYZBatch32Accuracy(t *testing.T) {
 		t.Errorf("XYZBatch32To allocates %g times per call", allocs)
 	}
 }
+
+// TestXYZKernelChunks runs a batch longer than one kernel call takes
+// (kernelChunk spectra) and checks every spectrum, the ones on both sides
+// of each chunk boundary included, against the portable kernel.
+func TestXYZKernelChunks(t *testing.T) {
+	t.Parallel()
+	const n = 81
+	count := 2*kernelChunk + 5
+	rng := rand.New(rand.NewPCG(13, 17))
+	w := [3][]float64{make([]float64, n), make([]float64, n), make([]float64, n)}
+	for k := range w {
+		for i := range w[k] {
+			w[k][i] = rng.Float64()
+		}
+	}
+	v := make([]float64, n*count)
+	for i := range v {
+		v[i] = rng.Float64()
+	}
+	got := make([]float64, 3*count)
+	want := make([]float64, 3*count)
+	xyzBatch(got, v, w[0], w[1], w[2])
+	xyzBatchGeneric(want, v, w[0], w[1], w[2])
+	for j := range count {
+		for k := range 3 {
+			if d := math.Abs(got[3*j+k] - want[3*j+k]); d > sumBound(v[j*n:(j+1)*n], w[k]) {
+				t.Fatalf("spectrum %d component %d: kernel %g, generic %g", j, k, got[3*j+k], want[3*j+k])
+			}
+		}
+	}
+}
