@@ -33,6 +33,7 @@ var goldenCases = []struct {
 	{"partner-amber.json", []string{"partner", "demo/filters.csv:gel-deep-amber", "demo/filters.csv", "--mode", "subtractive", "--top", "3", "--json"}},
 	{"wavelengths.txt", []string{"wavelengths", "--step", "20"}},
 	{"limits.txt", []string{"limits", "--hues", "8"}},
+	{"display-rig.txt", []string{"display", "demo/lamps.csv", "--channels", "wash-red,wash-green,wash-blue", "--balance", "D65"}},
 }
 
 func TestGolden(t *testing.T) {
