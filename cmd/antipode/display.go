@@ -72,11 +72,11 @@ func runDisplay(e *env, args []string) error {
 	var asJSON bool
 	fs := flag.NewFlagSet("display", flag.ContinueOnError)
 	fs.StringVar(&channels, "channels", "", "with FILE: the red, green and blue spectra, comma-separated `NAMES` in that order")
-	fs.StringVar(&primaries, "primaries", "", "the primaries' chromaticities instead of a FILE: `xr,yr,xg,yg,xb,yb` (CIE 1931)")
+	fs.StringVar(&primaries, "primaries", "", "the primaries' chromaticities instead of a FILE: `xr,yr,xg,yg,xb,yb` (for the observer of --observer)")
 	fs.StringVar(&white, "white", "", "with --primaries: the display white, a CIE illuminant `NAME` or x,y (default D65)")
 	fs.Float64Var(&whiteY, "white-y", 100, "luminance `Y` of the white at full drive (100: relative; or cd/m²)")
 	fs.StringVar(&balance, "balance", "", "also the gains that balance the display to this white: a CIE `NAME` or x,y")
-	fs.StringVar(&observer, "observer", "1931", "standard observer for measured spectra: `1931` (2°) or 1964 (10°)")
+	fs.StringVar(&observer, "observer", "1931", "standard observer of the chromaticities: `1931` (2°) or 1964 (10°)")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of tables")
 	pos, err := parseFlags(commands["display"], fs, e, args)
 	if err != nil {
