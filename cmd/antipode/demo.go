@@ -62,7 +62,7 @@ var demoSteps = []demoStep{
 		[]string{"pair", "lamps.csv:wash-amber", "lamps.csv:wash-cyan", "--also", "A,F11", "--uncertainty", "0.002"}},
 	{"Which gel in the shop best cancels the deep amber when stacked?",
 		[]string{"partner", "filters.csv:gel-deep-amber", "filters.csv", "--mode", "subtractive", "--top", "3"}},
-	{"The red, green and blue washes as an RGB display: the drive → XYZ matrix, and the gains that balance it to D65.",
+	{"The red, green and blue washes as an RGB display, taking their spectra in lamps.csv as full drive: the drive → XYZ matrix, and the gains that balance it to D65.",
 		[]string{"display", "lamps.csv", "--channels", "wash-red,wash-green,wash-blue", "--balance", "D65"}},
 	{"Calibrate the LED rig from its drive ramps (response curves and channel spectra).",
 		[]string{"fit", "lights", "rig_ramps.csv", "--out", "rig.json"}},
