@@ -357,13 +357,9 @@ func newDescriberIll(e *env, o describeOpts, ill colorimetry.Spectrum, illName s
 		}
 		ws, name, err := illuminantFlag(e, "--white", o.white)
 		if err != nil {
-			return nil, usagef("--white %s: %v", o.white, err)
+			return nil, err
 		}
-		wc, err := newTristimulus(obs, colorimetry.Spectrum{}, true).xyzOnly(ws)
-		if err != nil {
-			return nil, fmt.Errorf("--white %s: %v", o.white, err)
-		}
-		if d.white, err = wc.XY(); err != nil {
+		if d.white, err = lightXY(obs, ws); err != nil {
 			return nil, fmt.Errorf("--white %s: %v", o.white, err)
 		}
 		d.wname = name

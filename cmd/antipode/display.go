@@ -249,11 +249,7 @@ func whiteArg(e *env, flag, v string, obs *colorimetry.Observer) (colorimetry.XY
 	if err != nil {
 		return colorimetry.XY{}, "", err
 	}
-	c, err := newTristimulus(obs, colorimetry.Spectrum{}, true).xyzOnly(s)
-	if err != nil {
-		return colorimetry.XY{}, "", fmt.Errorf("%s %s: %v", flag, v, err)
-	}
-	xy, err := c.XY()
+	xy, err := lightXY(obs, s)
 	if err != nil {
 		return colorimetry.XY{}, "", fmt.Errorf("%s %s: %v", flag, v, err)
 	}
