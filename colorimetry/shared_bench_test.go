@@ -187,13 +187,16 @@ func benchData(b *testing.B, n int) []float64 {
 
 var sinkBatch []float64
 
-// BenchmarkXYZBatchShared times 200 000 reflectances → XYZ under D65/2° at
-// 5 nm on one goroutine, as the numpy anchor's 1-thread row does.
-func BenchmarkXYZBatchShared(b *testing.B) { benchmarkShared(b, 1) }
+// BenchmarkXYZBatch times 200 000 reflectances → XYZ under D65/2° at
+// 5 nm on one goroutine, as the numpy anchor's 1-thread row does: the
+// anchor's own data when it has been generated (make_data.py in
+// ../shared/bench, or ANTIPODE_BENCH_DIR), synthetic reflectances
+// otherwise.
+func BenchmarkXYZBatch(b *testing.B) { benchmarkShared(b, 1) }
 
-// BenchmarkXYZBatchSharedParallel uses every core, against the 2-thread row
+// BenchmarkXYZBatchParallel uses every core, against the 2-thread row
 // and the read ceiling (BenchmarkReadCeiling).
-func BenchmarkXYZBatchSharedParallel(b *testing.B) { benchmarkShared(b, 0) }
+func BenchmarkXYZBatchParallel(b *testing.B) { benchmarkShared(b, 0) }
 
 func benchmarkShared(b *testing.B, workers int) {
 	v := benchData(b, 200000)
@@ -211,9 +214,9 @@ func benchmarkShared(b *testing.B, workers int) {
 	b.ReportMetric(float64(len(v)/81)*float64(b.N)/b.Elapsed().Seconds(), "spectra/s")
 }
 
-// BenchmarkXYZBatch32SharedParallel is the parallel batch on the same
+// BenchmarkXYZBatch32Parallel is the parallel batch on the same
 // reflectances rounded to float32: half the bytes to read per spectrum.
-func BenchmarkXYZBatch32SharedParallel(b *testing.B) {
+func BenchmarkXYZBatch32Parallel(b *testing.B) {
 	v := benchData(b, 200000)
 	v32 := make([]float32, len(v))
 	for i, x := range v {
