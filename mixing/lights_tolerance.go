@@ -121,7 +121,10 @@ var toleranceFractions = []float64{0, 0.5, 1}
 // from the best of those vertices (16 directions on the edge), the exact
 // optimum and the plain recipes. The optimum is searched at the fractions
 // 0, ½ and 1 of the tolerance in turn, each search seeded with the one
-// before (the sets are nested), so the three values never fall. Without a
+// before (the sets are nested), so the three values never fall; a wider
+// fraction's optimum replaces the narrower one's only when it gains enough
+// to show (see worthMoving), so a tolerance that buys nothing leaves the
+// recipe on the target. Without a
 // luminance target the level is chosen as SolveQuality chooses it, the
 // mix at full drive corrected onto its own chromaticity.
 //
@@ -528,6 +531,12 @@ func (q *lightQuality) withinFrom(g LightGoal, tol LightTolerance, plain [][]flo
 		if !q.wholeInside(region, wf) {
 			return Recipe{}, fmt.Errorf("lights solve: the %v mix within %v left the tolerance (numerical trouble)", g, tol.scaled(frac))
 		}
+		if w != nil && !q.worthMoving(g, w, wf) {
+			// The wider tolerance buys nothing that shows: stay with the
+			// mix nearer the target (it lies in this region too, the
+			// regions being nested).
+			wf, bf = w, q.section(spf, w)
+		}
 		steps = append(steps, step{frac, wf})
 		prev = [][]float64{wf}
 		w, best, sp = wf, bf, spf
@@ -554,6 +563,26 @@ func (q *lightQuality) withinFrom(g LightGoal, tol LightTolerance, plain [][]flo
 	}
 	rec.Extra[keyToleranceTrade] = trade
 	return rec, nil
+}
+
+// worthMoving reports whether the mix to, found with a wider tolerance,
+// improves the goal over the mix from enough to be worth landing farther
+// from the target: by at least 0.05 for Ra, R9 and Rf (half the 0.1 to
+// which they are reported; CIE 13.3 and CIE 224 give them as whole or
+// one-decimal numbers), or by a relative 1e-4 for the efficacy and the
+// melanopic ratio (common practice (no source): below the repeatability
+// of any measurement of them).
+func (q *lightQuality) worthMoving(g LightGoal, from, to []float64) bool {
+	f := q.signed(g)
+	a, okA := f(from)
+	b, okB := f(to)
+	if !okA || !okB {
+		return okB
+	}
+	if g.searched() {
+		return b-a >= 0.05
+	}
+	return b-a >= 1e-4*math.Abs(a)
 }
 
 // optimumNear returns the recipe of goal g under tolerance tol for a

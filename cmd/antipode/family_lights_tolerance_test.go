@@ -84,3 +84,37 @@ func TestSolveTolerance(t *testing.T) {
 		t.Errorf("solve --help on a lights model should explain the tolerances:\n%s", help)
 	}
 }
+
+// TestSolveToleranceBuysNothing checks that a tolerance which buys no
+// visible gain leaves the goal's recipe on the target: on the demo rig the
+// Ra optimum at 4000 K gains less than 0.05 (half the reported 0.1) within
+// Δu′v′ 0.002, so recipe 1 must reach the target exactly and every point of
+// its trade-off report the same Ra.
+func TestSolveToleranceBuysNothing(t *testing.T) {
+	t.Parallel()
+	model, _ := lightsFitDemo(t)
+	code, out, errs := runCLI(t, "", "solve", model, "--cct", "4000", "--maximize", "ra", "--tolerance-uv-prime", "0.002", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var sol struct {
+		Recipes []map[string]any `json:"recipes"`
+	}
+	if err := json.Unmarshal([]byte(out), &sol); err != nil {
+		t.Fatal(err)
+	}
+	first := sol.Recipes[0]
+	if d := first["delta_uv_prime"].(float64); d > 1e-9 {
+		t.Errorf("Δu′v′ %g: the recipe left the target for a gain that does not show", d)
+	}
+	pts, _ := first["tolerance_trade_off"].([]any)
+	if len(pts) != 3 {
+		t.Fatalf("tolerance_trade_off %v", first["tolerance_trade_off"])
+	}
+	ra0 := pts[0].(map[string]any)["ra"]
+	for _, p := range pts {
+		if ra := p.(map[string]any)["ra"]; ra != ra0 {
+			t.Errorf("trade-off Ra %v, at share 0 %v", ra, ra0)
+		}
+	}
+}
