@@ -126,10 +126,15 @@ func describeEdges(edges []float64, bandStop bool) string {
 	} else {
 		b.WriteString("pass ")
 	}
+	first := true
 	for i := 0; i+1 < len(edges); i += 2 {
-		if i > 0 {
+		if edges[i+1]-edges[i] < 0.05 {
+			continue // a band narrower than the printed digit: numerical dust
+		}
+		if !first {
 			b.WriteString(", ")
 		}
+		first = false
 		fmt.Fprintf(&b, "%.1f–%.1f nm", edges[i], edges[i+1])
 	}
 	if len(edges)%2 == 1 {
@@ -187,13 +192,21 @@ func limitsCheck(e *env, solid *complement.ObjectSolid, obs *colorimetry.Observe
 	if asJSON {
 		return writeJSON(e.stdout, rows)
 	}
-	fmt.Fprintf(e.stdout, "%s against the object-colour solid under %s\n\n", file, illName)
+	fmt.Fprintf(e.stdout, "%s against the object-colour solid under %s, %s observer (%v)\n\n", file, illName, obs.Name(), solid.Grid())
 	t := &table{left: map[int]bool{5: true}}
 	t.header("name", "L*", "C*ab", "hab", "C*ab max", "realisable")
+	var warns []string
 	for _, r := range rows {
 		t.row(r.Name, fmt.Sprintf("%.2f", r.L), fmt.Sprintf("%.2f", r.C), fmt.Sprintf("%.1f", r.H), fmtOpt(r.MaxC, "%.2f"), map[bool]string{true: "yes", false: "NO"}[r.Realisable])
+		for _, w := range r.Warnings {
+			warns = append(warns, r.Name+": "+w)
+		}
 	}
 	t.write(e.stdout)
+	if len(warns) > 0 {
+		fmt.Fprintf(e.stdout, "\nwarnings:\n  %s\n", joinLines(warns))
+	}
+	fmt.Fprintln(e.stdout, "\nL*, C*ab and hab are computed on the solid's grid, so they may differ from describe's (5 nm for 5 nm data) in the second decimal.")
 	return nil
 }
 
