@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"slices"
 	"strconv"
 	"strings"
@@ -19,17 +20,22 @@ func init() {
 	register(&command{
 		name:    "describe",
 		summary: "tristimulus values and chromaticity of every spectrum in a file",
-		usage:   "describe FILE… [--column NAME,…] [--as light|reflectance|transmittance] [--illuminant NAME|FILE] [--observer 1931|1964] [--scale fraction|percent] [--absolute] [--json]",
+		usage:   "describe FILE[:NAME]… [--column NAME,…] [--as light|reflectance|transmittance] [--illuminant NAME|FILE] [--observer 1931|1964] [--scale fraction|percent] [--absolute] [--json]",
 		about: `Reads spectral CSV files (wavelength columns or wavelength rows, told apart by
 content; comma, semicolon or tab separated; "-" is standard input) and prints
-X, Y, Z, x, y, u′, v′ for each spectrum.
+X, Y, Z, x, y, u′, v′ for each spectrum. FILE:NAME picks one spectrum of a
+file, as --column does for every file. The footer gives the wavelength range
+of the data and the grid the computation used; data that miss the visible
+range are refused, and data that cover only part of 400–700 nm or are
+sampled more coarsely than 20 nm get a warning.
 
 Reflectance and transmittance are weighted by the illuminant so that the
 perfect diffuser has Y = 100. Lights are relative (Y = 100 for the light
 itself) unless --absolute is given, when a spectral radiance in W·sr⁻¹·m⁻²·nm⁻¹
 gives luminance in cd/m² (Km = 683.002 lm/W). Without --scale, reflectance or
 transmittance whose maximum exceeds 1.5 is taken as percent, and the output
-says so.
+says so; a reflectance or transmittance above 1.05 after scaling gets a
+warning, and one above 100 is refused.
 
 Lights also get their lighting quality: the colour rendering indices Ra and
 R1–R14 (CIE 13.3), the colour fidelity index Rf and Rf,i (CIE 224:2017), the
@@ -61,7 +67,10 @@ type describeRow struct {
 	Observer string   `json:"observer"`
 	Illum    *string  `json:"illuminant"`
 	Grid     string   `json:"grid"`
-	SRGB     *string  `json:"srgb"`
+	// DataGrid is the wavelength range and step of the data as read (grid
+	// is the one the computation used).
+	DataGrid string  `json:"data_grid"`
+	SRGB     *string `json:"srgb"`
 	// Added by the colour-quantities issue; null where they do not apply.
 	L             *float64     `json:"L"`
 	A             *float64     `json:"a"`
@@ -163,13 +172,41 @@ func runDescribe(e *env, args []string) error {
 	if misplaced != nil {
 		return misplaced
 	}
+	// The figure's destination is checked before anything is printed, so
+	// a pipeline never gets a complete table with exit status 2.
+	if *plotPath != "" {
+		if _, err := checkFigurePath("--plot", *plotPath, append(append([]string(nil), files...), o.uncertainty)); err != nil {
+			return err
+		}
+		if err := checkOutDir("--plot", *plotPath); err != nil {
+			return err
+		}
+	}
+	type source struct {
+		file  string
+		names []string
+	}
+	var srcs []source
+	for _, f := range files {
+		file, name := splitSpectrumArg(f)
+		var names []string
+		switch {
+		case name != "" && o.columns != "":
+			return usagef("%s names a spectrum and so does --column %s: use one or the other", f, o.columns)
+		case name != "":
+			names = []string{name}
+		case o.columns != "":
+			names = strings.Split(o.columns, ",")
+		}
+		srcs = append(srcs, source{file, names})
+	}
 	d, err := newDescriber(e, o)
 	if err != nil {
 		return err
 	}
 	out := newDescribeOut(e.stdout, o, *plotPath != "")
-	for _, f := range files {
-		err := eachSpectrum(e, f, o.columns, func(in spectrumIn) error {
+	for _, src := range srcs {
+		err := eachSpectrum(e, src.file, src.names, func(in spectrumIn) error {
 			r, err := d.describe(in)
 			if err != nil {
 				return err
@@ -191,22 +228,25 @@ func runDescribe(e *env, args []string) error {
 // millions of spectra needs no more memory than one block. A table of up
 // to describeBlock rows is laid out as one.
 type describeOut struct {
-	w     io.Writer
-	o     describeOpts
-	keep  bool          // keep every row (for --plot)
-	kept  []describeRow // the rows, when keep
-	block []describeRow
-	n     int // rows written so far
-	width []int
-	notes []string // warnings, up to maxNotes
-	extra int      // warnings beyond maxNotes
-	grids []string
-	white *string
+	w        io.Writer
+	o        describeOpts
+	keep     bool          // keep every row (for --plot)
+	kept     []describeRow // the rows, when keep
+	block    []describeRow
+	n        int // rows written so far
+	width    []int
+	notes    []string // warnings, up to maxNotes
+	extra    int      // warnings beyond maxNotes
+	grids    []string
+	data     []string // data grids, up to maxDataGrids
+	moreData int      // data grids beyond maxDataGrids
+	white    *string
 }
 
 const (
 	describeBlock = 1000
 	maxNotes      = 200
+	maxDataGrids  = 8
 )
 
 func newDescribeOut(w io.Writer, o describeOpts, keep bool) *describeOut {
@@ -219,6 +259,13 @@ func (p *describeOut) add(r describeRow) error {
 	}
 	if !slices.Contains(p.grids, r.Grid) {
 		p.grids = append(p.grids, r.Grid)
+	}
+	if !slices.Contains(p.data, r.DataGrid) {
+		if len(p.data) < maxDataGrids {
+			p.data = append(p.data, r.DataGrid)
+		} else {
+			p.moreData++
+		}
 	}
 	if p.white == nil {
 		p.white = r.White
@@ -291,7 +338,11 @@ func (p *describeOut) finish() error {
 	if light {
 		lightQualityNote(p.w)
 	}
-	fmt.Fprintf(p.w, "grid: %s\n", strings.Join(p.grids, "; "))
+	data := strings.Join(p.data, "; ")
+	if p.moreData > 0 {
+		data += fmt.Sprintf("; and %d more", p.moreData)
+	}
+	fmt.Fprintf(p.w, "data: %s\ngrid: %s\n", data, strings.Join(p.grids, "; "))
 	return nil
 }
 
@@ -372,6 +423,9 @@ func newDescriberIll(e *env, o describeOpts, ill colorimetry.Spectrum, illName s
 			}
 			d.uValue = v
 		} else {
+			if _, serr := os.Stat(o.uncertainty); serr != nil && o.uncertainty != "-" {
+				return nil, usagef("--uncertainty %s: not a number and not a file", o.uncertainty)
+			}
 			if d.uFile, err = readSpectra(e, o.uncertainty); err != nil {
 				return nil, err
 			}
@@ -469,20 +523,25 @@ func (d *describer) describe(in spectrumIn) (describeRow, error) {
 	r := describeRow{Name: in.name, File: in.file, As: o.as, Observer: calc.obs.Name(), Warnings: []string{}}
 	where := in.place()
 	s := in.s
+	r.DataGrid = dataGrid(s.Grid())
+	cover, err := checkCoverage(in, o.as == "light")
+	if err != nil {
+		return r, err
+	}
+	r.Warnings = append(r.Warnings, cover...)
 	factor := 1.0 // from the file's units to the computation's
 	if o.as == "light" {
 		s = s.WithExtrap(colorimetry.ExtrapZero)
 		if v, nm := s.Min(); v < 0 {
 			peak, _ := s.Max()
 			if v < -0.01*math.Abs(peak) {
-				return r, fmt.Errorf("%s: negative spectral power %g at %g nm (more than 1%% of the peak)", where, v, nm)
+				return r, fmt.Errorf("%s: negative spectral power %.4g (more than 1%% of the peak)", in.placeAt(nm), v)
 			}
 			r.Warnings = append(r.Warnings, fmt.Sprintf("small negative values (down to %.3g at %g nm) taken as noise", v, nm))
 		}
 	} else {
 		r.Illum = &d.illName
 		var warns []string
-		var err error
 		s, factor, r.Scale, warns, err = asFraction(in, o.scale, o.as)
 		if err != nil {
 			return r, err
@@ -512,7 +571,13 @@ func (d *describer) describe(in spectrumIn) (describeRow, error) {
 	r.X, r.Y, r.Z = c.X, c.Y, c.Z
 	xy, err := c.XY()
 	if err != nil {
+		// A perfect black: L* = a* = b* = 0 and sRGB #000000, as compare
+		// and limits take it; chromaticity and dominant wavelength stay
+		// undefined.
 		r.Warnings = append(r.Warnings, "black (X + Y + Z = 0): chromaticity undefined")
+		if o.as != "light" {
+			d.objectColour(&r, c, w.White())
+		}
 		return r, nil
 	}
 	r.SmallX, r.SmallY = &xy.X, &xy.Y
@@ -527,18 +592,8 @@ func (d *describer) describe(in spectrumIn) (describeRow, error) {
 	} else {
 		wxyz := w.White()
 		white, _ = wxyz.XY()
-		lab, err := c.Lab(wxyz)
-		if err != nil {
+		if err := d.objectColour(&r, c, wxyz); err != nil {
 			return r, fmt.Errorf("%s: %v", where, err)
-		}
-		lch := lab.LCh()
-		r.L, r.A, r.B, r.C, r.H = ptr(lab.L), ptr(lab.A), ptr(lab.B), ptr(lch.C), ptr(lch.H)
-		r.White = &d.illName
-		if hex, inGamut, err := srgbSwatch(c, wxyz); err == nil {
-			r.SRGB = &hex
-			if !inGamut {
-				r.Warnings = append(r.Warnings, "outside the sRGB gamut: the swatch "+hex+" is clipped")
-			}
 		}
 	}
 	if dom, err := d.locus.Dominant(xy, white); err == nil {
@@ -550,7 +605,7 @@ func (d *describer) describe(in spectrumIn) (describeRow, error) {
 		r.Purity = ptr(dom.ExcitationPurity)
 		r.ColPurity = ptr(dom.ColorimetricPurity)
 	} else {
-		r.Warnings = append(r.Warnings, "dominant wavelength undefined: "+err.Error())
+		r.Warnings = append(r.Warnings, dominantWarning(err, xy))
 	}
 
 	u, ok, err := d.uncertaintyFor(in)
@@ -566,6 +621,38 @@ func (d *describer) describe(in spectrumIn) (describeRow, error) {
 		}
 	}
 	return r, nil
+}
+
+// objectColour fills the CIELAB, CIELCh and sRGB swatch of an object
+// colour c seen under the illuminant whose perfect diffuser is wxyz.
+func (d *describer) objectColour(r *describeRow, c, wxyz colorimetry.XYZ) error {
+	lab, err := c.Lab(wxyz)
+	if err != nil {
+		return err
+	}
+	lch := lab.LCh()
+	r.L, r.A, r.B, r.C, r.H = ptr(lab.L), ptr(lab.A), ptr(lab.B), ptr(lch.C), ptr(lch.H)
+	r.White = &d.illName
+	if hex, inGamut, err := srgbSwatch(c, wxyz); err == nil {
+		r.SRGB = &hex
+		if !inGamut {
+			r.Warnings = append(r.Warnings, "outside the sRGB gamut: the swatch "+hex+" is clipped")
+		}
+	}
+	return nil
+}
+
+// dominantWarning words the warning for a dominant wavelength that the
+// library could not find (err) for chromaticity xy, with the
+// chromaticity to four decimals as the table prints it.
+func dominantWarning(err error, xy colorimetry.XY) string {
+	msg := err.Error()
+	if strings.HasPrefix(msg, "dominant wavelength of (") {
+		if _, rest, ok := strings.Cut(msg, "): "); ok {
+			msg = rest
+		}
+	}
+	return fmt.Sprintf("dominant wavelength undefined at x %.4f, y %.4f: %s", xy.X, xy.Y, msg)
 }
 
 // cct fills the correlated colour temperature and Duv of a light, or

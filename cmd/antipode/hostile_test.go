@@ -80,9 +80,13 @@ func TestDescribeHostileFiles(t *testing.T) {
 		// ±1e308 reads, but the tristimulus sums overflow: an error naming
 		// the spectrum, not NaN in the output.
 		{name: "overflow-light.csv", content: hostileGrid("1e308"), args: []string{"--as", "light"}, place: `:1: `, want: "overflow"},
-		// 1e308 as percent reflectance: interpolating 20 nm data to 1 nm
-		// overflows.
-		{name: "overflow-reflectance.csv", content: hostileGrid("1e308"), place: `:1: `, want: "overflows"},
+		// 1e308 and 1e306 as reflectance: even read as percent they are
+		// far beyond any reflectance factor (a fluorescent sample barely
+		// exceeds 1), so they are refused at their line and field, before
+		// any sum can overflow or print 300-digit numbers.
+		{name: "overflow-reflectance.csv", content: hostileGrid("1e308"), place: `:2:2 `, field: "s", want: "not a reflectance factor"},
+		{name: "huge-reflectance.csv", content: hostileGrid("1e306"), place: `:2:2 `, field: "s", want: "not a reflectance factor"},
+		{name: "huge-transmittance.csv", content: hostileGrid("101"), args: []string{"--as", "transmittance", "--scale", "fraction"}, place: `:2:2 `, field: "s", want: "not a transmittance factor"},
 		// A subnormal light scales to Y = 100 by a factor beyond the
 		// float64 range: +Inf in the table and a JSON failure before.
 		{name: "subnormal-light.csv", content: hostileGrid("5e-324"), args: []string{"--as", "light"}, place: `:1: `, want: "too small to scale"},
@@ -121,16 +125,17 @@ func TestDescribeHostileFiles(t *testing.T) {
 }
 
 // TestDescribeEdgeValues runs describe on files at the edges that are
-// valid data: -0, a UTF-8 byte order mark, CRLF endings, 1e306 read as
-// percent reflectance, the smallest subnormal. Each must exit 0 and print JSON that parses, with
-// no NaN: common practice (no source).
+// valid data: -0, a UTF-8 byte order mark, CRLF endings, a percent
+// reflectance of 10 000 % (100 as a fraction: the largest accepted), the
+// smallest subnormal. Each must exit 0 and print JSON that parses, with no
+// NaN: common practice (no source).
 func TestDescribeEdgeValues(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []struct{ name, content string }{
 		{"minus-zero.csv", hostileGrid("-0")},
 		{"bom.csv", "\ufeff" + hostileGrid("0.5")},
 		{"crlf.csv", strings.ReplaceAll(hostileGrid("0.5"), "\n", "\r\n")},
-		{"huge-reflectance.csv", hostileGrid("1e306")},
+		{"largest-reflectance.csv", hostileGrid("1e4")},
 		{"tiny.csv", hostileGrid("5e-324")},
 	} {
 		path := filepath.Join(t.TempDir(), tc.name)
