@@ -166,6 +166,7 @@ func printCommandHelp(w io.Writer, c *command, fs *flag.FlagSet) {
 func parseFlags(c *command, fs *flag.FlagSet, e *env, args []string) ([]string, error) {
 	fs.SetOutput(io.Discard)
 	fs.Usage = func() {}
+	args = stdinNames(fs, args)
 	var pos []string
 	for {
 		if err := fs.Parse(args); err != nil {
@@ -182,4 +183,39 @@ func parseFlags(c *command, fs *flag.FlagSet, e *env, args []string) ([]string, 
 		pos = append(pos, args[0])
 		args = args[1:]
 	}
+}
+
+// stdinNames lets "-:NAME" (one spectrum of standard input) through the
+// flag parser, which would take it for an unknown flag: it puts "--"
+// before each such argument, so parseFlags takes it as a positional
+// argument and goes on parsing flags after it. An argument that is the
+// value of the flag before it is left alone.
+func stdinNames(fs *flag.FlagSet, args []string) []string {
+	out := make([]string, 0, len(args)+1)
+	for i, a := range args {
+		if a == "--" {
+			return append(out, args[i:]...)
+		}
+		if strings.HasPrefix(a, "-:") && len(a) > 2 && (i == 0 || !takesValue(fs, args[i-1])) {
+			out = append(out, "--")
+		}
+		out = append(out, a)
+	}
+	return out
+}
+
+// takesValue reports whether a is a flag of fs that takes its value from
+// the next argument (-name or --name of a non-boolean flag, without "=").
+func takesValue(fs *flag.FlagSet, a string) bool {
+	if len(a) < 2 || a[0] != '-' || strings.Contains(a, "=") {
+		return false
+	}
+	f := fs.Lookup(strings.TrimPrefix(a[1:], "-"))
+	if f == nil {
+		return false
+	}
+	if b, ok := f.Value.(interface{ IsBoolFlag() bool }); ok && b.IsBoolFlag() {
+		return false
+	}
+	return true
 }

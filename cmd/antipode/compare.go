@@ -25,7 +25,9 @@ CIELAB, ΔE00) under each named illuminant, the pair being compared under
 metamerism index, which needs the standard deviate observer).
 
 STANDARD is a file with one spectrum, or FILE:NAME for one spectrum of a file.
-SAMPLE is a file (every spectrum in it is compared) or FILE:NAME.
+SAMPLE is a file (every spectrum in it is compared) or FILE:NAME. Either (not
+both) may be standard input: - for all of it, -:NAME for one spectrum of it.
+Warnings about one spectrum name it ("standard NAME: …", "sample NAME: …").
 With --uncertainty VALUE (standard uncertainty of every sample, in the files'
 units) u(ΔE00) is propagated (GUM first order, Monte Carlo near zero).`,
 		example: `  $ antipode compare cmd/antipode/demo/paints.csv:ky-sage cmd/antipode/demo/paints.csv:ky-teal --also A,F11
@@ -51,6 +53,10 @@ type compareRow struct {
 	Illuminant string             `json:"illuminant"`
 	Observer   string             `json:"observer"`
 	Warnings   []string           `json:"warnings"`
+
+	// named is how many of Warnings, at the start, name the spectrum they
+	// concern (standard or sample); the rest concern the pair.
+	named int
 }
 
 type fieldSize struct {
@@ -75,7 +81,10 @@ func runCompare(e *env, args []string) error {
 		return err
 	}
 	if len(pos) != 2 {
-		return usagef("want a STANDARD and a SAMPLE (got %d arguments)", len(pos))
+		return usagef("want a STANDARD and a SAMPLE (got %s)", plural(len(pos), "argument", "arguments"))
+	}
+	if err := oneStdin(pos...); err != nil {
+		return err
 	}
 	if as != "reflectance" && as != "transmittance" {
 		return usagef("--as %s: want reflectance or transmittance", as)
@@ -113,7 +122,7 @@ func runCompare(e *env, args []string) error {
 		return err
 	}
 	if len(stds) != 1 {
-		return usagef("STANDARD %s holds %d spectra; name one as FILE:NAME", pos[0], len(stds))
+		return usagef("STANDARD %s holds %s; name one as %s", pos[0], plural(len(stds), "spectrum", "spectra"), nameOne(pos[0]))
 	}
 	samples, err := spectrumArg(e, pos[1])
 	if err != nil {
@@ -123,6 +132,7 @@ func runCompare(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	stdWarn = prefixAll(stdWarn, "standard "+stds[0].name+": ")
 	g := colorimetry.ComputationGrid(std.Grid())
 	w, err := colorimetry.NewObjectWeights(obs, ill, g)
 	if err != nil {
@@ -138,8 +148,10 @@ func runCompare(e *env, args []string) error {
 		if err != nil {
 			return err
 		}
+		warns = prefixAll(warns, "sample "+in.name+": ")
 		r := compareRow{Standard: stds[0].name, Sample: in.name, Illuminant: illName, Observer: obs.Name(),
 			Metamerism: map[string]float64{}, Warnings: append(append([]string{}, stdWarn...), warns...)}
+		r.named = len(r.Warnings)
 		lab, err := labOf(w, smp, in)
 		if err != nil {
 			return err
@@ -246,10 +258,19 @@ func printCompare(e *env, rows []compareRow, tests []colorimetry.NamedIlluminant
 		t.row(append(row, fsz)...)
 	}
 	t.write(w)
+	// Warnings that name their spectrum are printed once (the standard's
+	// repeat in every row); those about the pair get the sample's name.
 	var notes []string
+	seen := map[string]bool{}
 	for _, r := range rows {
-		for _, wn := range r.Warnings {
-			notes = append(notes, r.Sample+": "+wn)
+		for i, wn := range r.Warnings {
+			if i >= r.named {
+				wn = r.Sample + ": " + wn
+			}
+			if !seen[wn] {
+				seen[wn] = true
+				notes = append(notes, wn)
+			}
 		}
 	}
 	if len(notes) > 0 {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"flag"
 	"fmt"
 
@@ -29,7 +30,9 @@ gives black.
 The complementary wavelength is the wavelength whose light, added to A, can
 match the white; "power" is that line's radiant power in A's units (for a
 reflectance, per unit of the illuminant), and "power ratio" its share
-relative to A's total power. --out writes the complement spectrum as CSV.`,
+relative to A's total power. --out writes the complement spectrum as CSV.
+A is a file with one spectrum or FILE:NAME; - reads standard input and
+-:NAME names one of its spectra.`,
 		example: `  $ antipode complement cmd/antipode/demo/lamps.csv:wash-amber --out amber-complement.csv
   $ antipode complement cmd/antipode/demo/paints.csv:ky-ochre --as reflectance --json`,
 		run: runComplement,
@@ -60,7 +63,7 @@ type complementResult struct {
 }
 
 func runComplement(e *env, args []string) error {
-	var as, illum, observer, out string
+	var as, illum, observer, out, valueScale string
 	var scale float64
 	var asJSON bool
 	fs := flag.NewFlagSet("complement", flag.ContinueOnError)
@@ -68,6 +71,7 @@ func runComplement(e *env, args []string) error {
 	fs.StringVar(&illum, "illuminant", "D65", "the white: a CIE `NAME` or a FILE")
 	fs.StringVar(&observer, "observer", "1931", "standard observer: `1931` (2°) or 1964 (10°)")
 	fs.Float64Var(&scale, "scale-white", 0, "lights: the scale `S` of the white (0: the smallest that keeps the complement non-negative)")
+	fs.StringVar(&valueScale, "scale", "", "reflectance: scale of the values, `fraction` (0–1) or percent (0–100); default: percent when the maximum exceeds 1.5")
 	fs.StringVar(&out, "out", "", "write the complement spectrum to `FILE` (CSV, wavelength column)")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a report")
 	plotPath := fs.String("plot", "", "also draw A and its complement (spectra and the x, y chromaticity diagram) to `FILE` (.svg or .png)")
@@ -76,7 +80,13 @@ func runComplement(e *env, args []string) error {
 		return err
 	}
 	if len(pos) != 1 {
-		return usagef("want one spectrum A (got %d arguments)", len(pos))
+		return usagef("want one spectrum A (got %s)", plural(len(pos), "argument", "arguments"))
+	}
+	if err := checkScale(valueScale); err != nil {
+		return err
+	}
+	if valueScale != "" && as != "reflectance" {
+		return usagef("--scale applies to --as reflectance")
 	}
 	var m complement.Mode
 	switch as {
@@ -104,7 +114,7 @@ func runComplement(e *env, args []string) error {
 		return err
 	}
 	if len(list) != 1 {
-		return usagef("%s holds %d spectra; name one as FILE:NAME", pos[0], len(list))
+		return usagef("%s holds %s; name one as %s", pos[0], plural(len(list), "spectrum", "spectra"), nameOne(pos[0]))
 	}
 	in := list[0]
 	r := complementResult{Name: in.name, As: as, Illuminant: illName, Observer: obs.Name(), Warnings: []string{}}
@@ -116,7 +126,7 @@ func runComplement(e *env, args []string) error {
 		r.Scale = ptr(d.Scale)
 	} else {
 		var warns []string
-		a, _, _, warns, err = asFraction(in, "", "reflectance")
+		a, _, _, warns, err = asFraction(in, valueScale, "reflectance")
 		if err != nil {
 			return err
 		}
@@ -152,7 +162,16 @@ func runComplement(e *env, args []string) error {
 		r.CompWave, r.LinePower, r.LinePowerRate = ptr(cw.Wavelength), ptr(cw.Power), ptr(cw.PowerRatio)
 		r.Warnings = append(r.Warnings, cw.Warnings...)
 	} else {
-		r.Warnings = append(r.Warnings, "no complementary wavelength: "+err.Error())
+		// The library names its parameter ("s: …"); the user knows A.
+		msg := err.Error()
+		var ie *complement.InputError
+		if errors.As(err, &ie) {
+			msg = ie.Err.Error()
+		}
+		if !errors.Is(err, complement.ErrNoComplementaryWavelength) {
+			msg = "no complementary wavelength: " + msg
+		}
+		r.Warnings = append(r.Warnings, msg)
 	}
 	if out != "" {
 		var b bytes.Buffer

@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 
 	"github.com/antipode-color/antipode/colorimetry"
 	"github.com/antipode-color/antipode/colorimetry/specio"
@@ -196,6 +197,21 @@ func orNull(s string) any {
 		return nil
 	}
 	return s
+}
+
+// fractionSum returns the sum of the mass fractions am and, when it is
+// not 1 (within 1e-6), the warning that they are taken as proportions (an
+// opaque film's colour depends only on their ratios); mix and correct
+// share it.
+func fractionSum(am []mixing.Amount) (float64, []string) {
+	var sum float64
+	for _, a := range am {
+		sum += a.Value
+	}
+	if math.Abs(sum-1) > 1e-6 {
+		return sum, []string{fmt.Sprintf("the mass fractions sum to %.6g; taken as proportions", sum)}
+	}
+	return sum, nil
 }
 
 // prependWarnings puts warns (about the target) before each recipe's own.

@@ -32,7 +32,8 @@ The measurement file is spectral CSV in the rows layout, one sample per line:
                   carry the unit: "concentration (g/L)"
   unit            optional, the unit if the header does not carry it
   heldout         optional, 1 keeps the sample out of the fit and scores it
-  380, 385, …     transmittance, fraction 0–1, one column per wavelength (nm)
+  380, 385, …     transmittance, fraction 0–1 (or percent, see --scale), one
+                  column per wavelength (nm)
 
 Replicates (two rows of the same dye and concentration) are welcome: each is
 an equation of its own. Every dye needs at least two different non-zero
@@ -58,7 +59,7 @@ func init() {
 
 var fitDyesCommand = &command{
 	name:  "fit",
-	usage: "fit dyes MEASUREMENTS.csv --out MODEL.json [--illuminant D65] [--observer 1931] [--holdout FRACTION] [--absorbance-limit 2.5] [--json]",
+	usage: "fit dyes MEASUREMENTS.csv --out MODEL.json [--illuminant D65] [--observer 1931] [--holdout FRACTION] [--absorbance-limit 2.5] [--scale fraction|percent] [--json]",
 	about: dyesFitHelp,
 	example: `  $ antipode fit dyes cmd/antipode/demo/dyes_dilutions.csv --out dyes.json
   $ antipode fit dyes my-series.csv --out my-dyes.json --holdout 0.2 --illuminant A`,
@@ -98,11 +99,13 @@ func fitDyes(e *env, args []string) error {
 	ff := fitFlags{model: "MODEL.json"}
 	var vf viewFlags
 	var holdout, limit float64
+	var scale string
 	fs := flag.NewFlagSet("fit dyes", flag.ContinueOnError)
 	ff.define(fs)
 	vf.define(fs, "D65", "illuminant for the ΔE00 of the report")
 	fs.Float64Var(&holdout, "holdout", 0, "hold out this `FRACTION` (0–1) of the samples for validation, chosen deterministically (never blanks nor a dye's lowest or highest concentration)")
 	fs.Float64Var(&limit, "absorbance-limit", mixing.DefaultAbsorbanceLimit, "leave out measured absorbance above `A` (stray light)")
+	fs.StringVar(&scale, "scale", "", "scale of the transmittances: `fraction` (0–1) or percent; default: percent when a value exceeds 1.5")
 	files, err := ff.parse(fitDyesCommand, fs, e, args, "measurement")
 	if err != nil {
 		return err
@@ -113,6 +116,9 @@ func fitDyes(e *env, args []string) error {
 	if !(limit > 0) || limit > 1e6 {
 		return usagef("--absorbance-limit %v: want a positive absorbance", limit)
 	}
+	if err := checkScale(scale); err != nil {
+		return err
+	}
 	scorer, err := vf.scorer(e)
 	if err != nil {
 		return err
@@ -122,9 +128,15 @@ func fitDyes(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	scale, warns := recordsScale(recs, scale, "transmittance")
 	samples, unit, err := mixing.DyeSamples(recs, path)
 	if err != nil {
 		return err
+	}
+	if scale == "percent" {
+		for i := range samples {
+			samples[i].Transmittance = samples[i].Transmittance.Scale(0.01)
+		}
 	}
 	m, err := mixing.FitDyes(samples, mixing.DyeFitSettings{Unit: unit, Scorer: scorer, HoldOut: holdout, AbsorbanceLimit: limit})
 	if err != nil {
@@ -133,19 +145,22 @@ func fitDyes(e *env, args []string) error {
 	if err := saveModel(ff.out, m, files); err != nil {
 		return err
 	}
+	// The reading's warnings (percent taken) go before the fit's own, in
+	// the report as printed; the model file keeps the fit's.
+	r := m.Report()
+	r.Warnings = append(warns, r.Warnings...)
 	if ff.asJSON {
 		return writeJSON(e.stdout, map[string]any{
-			"model": ff.out, "kind": m.Kind(), "unit": m.Unit(), "dyes": m.Names(), "fit": m.Report(),
+			"model": ff.out, "kind": m.Kind(), "unit": m.Unit(), "dyes": m.Names(), "fit": r,
 			"linearity": dyeNonNil(m.Linearity()), "breakdowns": dyeNonNil(m.Breakdowns()),
 		})
 	}
-	printDyeFit(e.stdout, m, samples, path, ff.out)
+	printDyeFit(e.stdout, m, &r, samples, path, ff.out)
 	return nil
 }
 
-// printDyeFit writes the human-readable fit report.
-func printDyeFit(w io.Writer, m *mixing.Dyes, samples []mixing.DyeSample, path, out string) {
-	r := m.Report()
+// printDyeFit writes the human-readable fit report r of m.
+func printDyeFit(w io.Writer, m *mixing.Dyes, r *mixing.FitReport, samples []mixing.DyeSample, path, out string) {
 	g := m.Grid()
 	unit := dyeUnit(m.Unit())
 	fmt.Fprintf(w, "Dyes model from %s: %d samples, %d dyes, %g–%g nm at %g nm, concentrations in %s\n",
@@ -162,7 +177,7 @@ func printDyeFit(w io.Writer, m *mixing.Dyes, samples []mixing.DyeSample, path, 
 		t.row(s.Name, dyeContents(samples[k]), set, fmt.Sprintf("%.4f", s.RMS), fmt.Sprintf("%.4f", s.MaxAbs), fmt.Sprintf("%.2f", s.DE00))
 	}
 	t.write(w)
-	printFitSummary(w, &r, "samples", 4, "mark samples with heldout = 1 or use --holdout")
+	printFitSummary(w, r, "samples", 4, "mark samples with heldout = 1 or use --holdout")
 
 	fmt.Fprintf(w, "\nBeer–Lambert linearity (R² of absorbance against concentration)\n")
 	var lt table

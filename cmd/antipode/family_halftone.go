@@ -79,7 +79,7 @@ var fitHalftoneCommand = &command{
 
 var mixHalftoneCommand = &command{
 	name:  "mix",
-	usage: "mix PRINT.json --amounts ink=coverage,… [--illuminant D50] [--observer 1931] [--out FILE.csv] [--json]",
+	usage: "mix PRINT.json --amounts ink=fraction,… [--illuminant D50] [--observer 1931] [--out FILE.csv] [--json]",
 	about: `Runs a halftone print model forward: the reflectance printed at the given
 nominal coverages (fractions 0–1: 40 % is 0.4; inks not named are 0), and its
 colour under the illuminant: X, Y, Z and CIELAB, with the effective coverages
@@ -110,11 +110,11 @@ target (--lab) the one recipe uses the least ink.
 A target the press cannot print is not an error: the answer is the nearest
 printable colour with its ΔE00, marked not reachable ("reachable" means
 ΔE00 ≤ --tolerance). Coverages are fractions 0–1 in --ink-max, --fix and the
-JSON output; the table shows percent.
+JSON output (12.2 % is 0.122); the table shows percent, and --tac is percent.
 
-With --json the output is {"recipes":[{"amounts":{ink: coverage},"dE00",
+With --json the output is {"recipes":[{"amounts":{ink: fraction 0–1},"dE00",
 "reachable","warnings","choice","tac_percent","tac_limit_percent",
-"effective":{ink: coverage},"L","a","b","spectral_rms"}]}.`,
+"effective":{ink: fraction 0–1},"L","a","b","spectral_rms"}]}.`,
 	example: `  $ antipode fit halftone cmd/antipode/demo/press_characterisation.csv --out press.json --tac 300
   $ antipode solve press.json --target cmd/antipode/demo/press_target.csv:poster-brick
   $ antipode solve press.json --lab 60,-20,-35 --tac 280 --fix k=0 --json`,
@@ -297,16 +297,21 @@ func halftoneModel(m mixing.Model) (*mixing.Halftone, error) {
 	return modelAs[*mixing.Halftone](m, "halftone")
 }
 
-// htCoverageFlag parses an ink=fraction list for the flag name, with a
-// hint when a value looks like percent.
+// htCoverageFlag parses an ink=fraction list for the flag name. A value
+// outside 0–1 is refused; the message converts it as if it were percent
+// (12.2 → 0.122), the likeliest mistake, since the solve table and the
+// chart write coverages in percent.
 func htCoverageFlag(name, s string) ([]mixing.Amount, error) {
 	am, err := parseAmounts(s)
 	if err != nil {
 		return nil, usagef("--%s: %v", name, strings.TrimPrefix(err.Error(), "--amounts: "))
 	}
 	for _, a := range am {
-		if a.Value < 0 || a.Value > 1 {
-			return nil, usagef("--%s: %s=%g is outside 0–1 (coverages are fractions: 95 %% is 0.95)", name, a.Name, a.Value)
+		switch {
+		case a.Value > 1 && a.Value <= 100:
+			return nil, usagef("--%s: %s=%g is above 1: coverages are fractions 0–1 (%g %% is %g)", name, a.Name, a.Value, a.Value, a.Value/100)
+		case a.Value < 0 || a.Value > 1:
+			return nil, usagef("--%s: %s=%g is outside 0–1: coverages are fractions 0–1 (12.2 %% is 0.122)", name, a.Name, a.Value)
 		}
 	}
 	return am, nil
@@ -326,7 +331,7 @@ func mixHalftone(e *env, mm mixing.Model, args []string) error {
 	var vf viewFlags
 	var asJSON bool
 	fs := flag.NewFlagSet("mix", flag.ContinueOnError)
-	fs.StringVar(&amounts, "amounts", "", "nominal coverages as `ink=fraction,…` (0–1)")
+	fs.StringVar(&amounts, "amounts", "", "nominal coverages as fractions 0–1, `ink=fraction,…` (40 % is 0.4)")
 	vf.define(fs, "D50", "illuminant for the colour")
 	fs.StringVar(&out, "out", "", "write the reflectance spectrum to `FILE.csv`")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of text")
@@ -406,8 +411,8 @@ func solveHalftone(e *env, mm mixing.Model, args []string) error {
 	fs.StringVar(&target, "target", "", "target reflectance: a spectral `FILE`, or FILE:NAME for one spectrum of it")
 	fs.StringVar(&labArg, "lab", "", "target as CIELAB `L,a,b` under --illuminant, instead of --target")
 	fs.Float64Var(&tac, "tac", 0, "total area coverage limit in `PERCENT` (e.g. 300); default: the model's, or none")
-	fs.StringVar(&inkMax, "ink-max", "", "largest nominal coverage of inks, `ink=fraction,…` (0–1)")
-	fs.StringVar(&fix, "fix", "", "hold inks at nominal coverages, `ink=fraction,…` (0–1), e.g. k=0")
+	fs.StringVar(&inkMax, "ink-max", "", "largest nominal coverage of inks as fractions 0–1, `ink=fraction,…` (95 % is 0.95)")
+	fs.StringVar(&fix, "fix", "", "hold inks at nominal coverages as fractions 0–1, `ink=fraction,…` (12.2 % is 0.122), e.g. k=0")
 	vf.define(fs, "D50", "illuminant of the colour match")
 	fs.Float64Var(&tol, "tolerance", mixing.DefaultHalftoneTolerance, "`ΔE00` up to which the target counts as reached")
 	fs.StringVar(&scale, "scale", "", "scale of the target's values: `fraction` (0–1) or percent; default: percent when the maximum exceeds 1.5")

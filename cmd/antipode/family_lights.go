@@ -460,8 +460,11 @@ func solveLights(e *env, mm mixing.Model, args []string) error {
 			given++
 		}
 	}
-	if given != 1 {
-		return usagef("give the target once: --target FILE, --xy x,y or --cct K")
+	switch {
+	case given == 0:
+		return usagef("give a target: --target FILE, --xy x,y or --cct K")
+	case given > 1:
+		return usagef("give one target only: --target FILE, --xy x,y or --cct K")
 	}
 	if duv != 0 && cct == 0 {
 		return usagef("--duv needs --cct")

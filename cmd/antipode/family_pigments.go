@@ -398,14 +398,7 @@ func mixPigments(e *env, mm mixing.Model, args []string) error {
 	if err != nil {
 		return err
 	}
-	var warns []string
-	var sum float64
-	for _, a := range am {
-		sum += a.Value
-	}
-	if math.Abs(sum-1) > 1e-6 {
-		warns = append(warns, fmt.Sprintf("the mass fractions sum to %.6g; taken as proportions", sum))
-	}
+	_, warns := fractionSum(am)
 	r, err := p.Reflectance(am)
 	if err != nil {
 		return usagef("--amounts: %v", err)
@@ -635,10 +628,34 @@ func solvePigments(e *env, mm mixing.Model, args []string) error {
 	if asJSON {
 		return writeSolution(e, sol)
 	}
-	fmt.Fprintf(e.stdout, "Recipes for %s\nunder %s, %s; the white %s and up to %d of %d colorants; reachable means ΔE00 ≤ %g\n",
-		what, opt.Illuminant.Name, opt.Observer.Name(), p.White, opt.Colorants, len(p.Colorants)-1, opt.Tolerance)
+	fmt.Fprintf(e.stdout, "Recipes for %s\nunder %s, %s; the white %s and %s; reachable means ΔE00 ≤ %g\n",
+		what, opt.Illuminant.Name, opt.Observer.Name(), p.White, recipeScope(p, opt), opt.Tolerance)
 	printRecipes(e.stdout, sol, opt)
 	return nil
+}
+
+// recipeScope says which chromatic colorants a solve may combine with the
+// white: "up to 3 of 6 colorants", or "any of the 6 colorants" when
+// --colorants allows them all; the pool is --only's names (the white left
+// out) when given.
+func recipeScope(p *mixing.Pigments, opt mixing.RecipeOptions) string {
+	pool := len(p.Colorants) - 1
+	if len(opt.Only) > 0 {
+		pool = 0
+		for _, n := range opt.Only {
+			if !strings.EqualFold(n, p.White) {
+				pool++
+			}
+		}
+	}
+	noun := "colorants"
+	if pool == 1 {
+		noun = "colorant"
+	}
+	if opt.Colorants >= pool {
+		return fmt.Sprintf("any of the %d %s", pool, noun)
+	}
+	return fmt.Sprintf("up to %d of %d %s", opt.Colorants, pool, noun)
 }
 
 // solveError adds the best recipe of a non-converged solve to the message.

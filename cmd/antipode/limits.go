@@ -14,7 +14,7 @@ func init() {
 	register(&command{
 		name:    "limits",
 		summary: "the optimal-colour boundary (MacAdam limits) at a lightness",
-		usage:   "limits [--illuminant D65] [--observer 1931|1964] [--lightness 50] [--hues 36] [--check FILE] [--json]",
+		usage:   "limits [--illuminant D65] [--observer 1931|1964] [--lightness 50] [--hues 36] [--check FILE [--scale fraction|percent]] [--json]",
 		about: `Prints the boundary of the object-colour solid at lightness L*: for each hue
 angle, the largest chroma C*ab any reflectance can reach under the illuminant,
 with the optimal reflectance that reaches it (reflectance 1 between the edge
@@ -46,7 +46,7 @@ CSV on standard output (or --out FILE); --json for an array.`,
 }
 
 func runLimits(e *env, args []string) error {
-	var illum, observer, check string
+	var illum, observer, check, scale string
 	var light float64
 	var hues int
 	var asJSON bool
@@ -56,6 +56,7 @@ func runLimits(e *env, args []string) error {
 	fs.Float64Var(&light, "lightness", 50, "CIELAB lightness `L*` of the slice (0–100)")
 	fs.IntVar(&hues, "hues", 36, "number of equally spaced hue angles")
 	fs.StringVar(&check, "check", "", "check the reflectances in `FILE` against the solid instead")
+	fs.StringVar(&scale, "scale", "", "with --check: scale of the reflectances, `fraction` (0–1) or percent (0–100); default: percent when the maximum exceeds 1.5")
 	fs.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
 	pos, err := parseFlags(commands["limits"], fs, e, args)
 	if err != nil {
@@ -63,6 +64,12 @@ func runLimits(e *env, args []string) error {
 	}
 	if len(pos) > 0 {
 		return usagef("limits takes no arguments (did you mean --check %s?)", pos[0])
+	}
+	if err := checkScale(scale); err != nil {
+		return err
+	}
+	if scale != "" && check == "" {
+		return usagef("--scale applies to --check")
 	}
 	if !(light > 0 && light < 100) {
 		return usagef("--lightness %g: want a value between 0 and 100 (exclusive)", light)
@@ -83,7 +90,7 @@ func runLimits(e *env, args []string) error {
 		return fmt.Errorf("--illuminant %s: %v", illum, err)
 	}
 	if check != "" {
-		return limitsCheck(e, solid, obs, ill, check, illName, asJSON)
+		return limitsCheck(e, solid, obs, ill, check, scale, illName, asJSON)
 	}
 	pts, err := solid.Boundary(light, hues)
 	if err != nil {
@@ -143,7 +150,7 @@ func describeEdges(edges []float64, bandStop bool) string {
 	return b.String()
 }
 
-func limitsCheck(e *env, solid *complement.ObjectSolid, obs *colorimetry.Observer, ill colorimetry.Spectrum, file, illName string, asJSON bool) error {
+func limitsCheck(e *env, solid *complement.ObjectSolid, obs *colorimetry.Observer, ill colorimetry.Spectrum, file, scale, illName string, asJSON bool) error {
 	list, err := spectrumArg(e, file)
 	if err != nil {
 		return err
@@ -164,7 +171,7 @@ func limitsCheck(e *env, solid *complement.ObjectSolid, obs *colorimetry.Observe
 		return err
 	}
 	for _, in := range list {
-		s, _, _, warns, err := asFraction(in, "", "reflectance")
+		s, _, _, warns, err := asFraction(in, scale, "reflectance")
 		if err != nil {
 			return err
 		}

@@ -52,8 +52,8 @@ func init() {
 on training and held-out samples) and writes the model file (JSON, schema
 "antipode-model/1"; see the README). "antipode fit KIND --help" describes the
 measurement layout each kind expects.`,
-		example: `  $ antipode fit lights rig-ramps.csv --out rig.json
-  $ antipode fit dyes dilutions.csv --out dyes.json --holdout 0.25`,
+		example: `  $ antipode fit lights cmd/antipode/demo/rig_ramps.csv --out rig.json
+  $ antipode fit dyes cmd/antipode/demo/dyes_dilutions.csv --out dyes.json --holdout 0.25`,
 		run: runFit,
 	})
 	register(&command{
@@ -62,21 +62,29 @@ measurement layout each kind expects.`,
 		usage:   "mix MODEL.json --amounts name=value,… [--out FILE] [--json]",
 		about: `Runs a fitted model forward: the spectrum and colour of the given amounts
 (drive levels 0–1 for lights, concentrations for dyes, mass fractions for
-pigments, coverages 0–1 for halftone inks).`,
-		example: `  $ antipode mix rig.json --amounts red=0.8,green=0.35,blue=0.1`,
-		run:     runMix,
+pigments, coverages as fractions 0–1 for halftone inks: 40 % is 0.4).
+"antipode mix MODEL.json --help" lists the flags of the model's kind; the
+names are the model's channels, dyes, colorants or inks ('antipode demo'
+writes rig.json, dyes.json, paints.json and press.json to try).`,
+		example: `  $ antipode fit lights cmd/antipode/demo/rig_ramps.csv --out rig.json
+  $ antipode mix rig.json --amounts wash-red=0.8,wash-green=0.35,wash-blue=0.1
+  $ antipode mix rig.json --help`,
+		run: runMix,
 	})
 	register(&command{
 		name:    "solve",
 		summary: "solve a model file for the amounts that reach a target",
-		usage:   "solve MODEL.json (--target FILE | --xy x,y | --cct K [--duv d]) [flags] [--json]",
+		usage:   "solve MODEL.json (--target FILE | --lab L,a,b | --xy x,y | --cct K [--duv d]) [flags] [--json]",
 		about: `Solves a fitted model for the amounts that reach a target and prints the
 recipes ranked best first, each with the ΔE00 (or Δu′v′ for lights) reached
 and whether the target was reachable. "antipode solve MODEL.json --help" lists
 the flags of the model's kind. With --json the output is one object whose key
 "recipes" is the ranked array of {amounts, dE00, reachable, warnings, …}.`,
-		example: `  $ antipode solve rig.json --cct 4000 --duv 0
-  $ antipode solve dyes.json --target wanted.csv --json`,
+		example: `  $ antipode fit lights cmd/antipode/demo/rig_ramps.csv --out rig.json
+  $ antipode solve rig.json --cct 4000 --duv 0
+  $ antipode fit dyes cmd/antipode/demo/dyes_dilutions.csv --out dyes.json
+  $ antipode solve dyes.json --target cmd/antipode/demo/dyes_target.csv --json
+  $ antipode solve dyes.json --help`,
 		run: runSolve,
 	})
 }

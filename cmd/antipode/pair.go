@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"math"
+	"os"
 	"strings"
 
 	"github.com/antipode-color/antipode/cie"
@@ -28,18 +29,36 @@ peak) and Δu′v′ are both within tolerance, "metameric" when only the colour
 mixing ratio that brings the mix nearest the white, and the distance of the
 white from the line A–B in the u′v′ diagram (0 for exact complements).
 
+Which mix each figure is of (JSON keys in brackets):
+  Δu′v′ of A + B as given [delta_uv_prime]: A and B at the intensities in
+    their files; the verdict is judged on this mix.
+  spectral RMS and max residual [spectral_rms, spectral_max]: also A + B as
+    given, against the white at its best-fitting scale [scale], on the grid
+    the files share with the illuminant.
+  Δu′v′ at the best ratio [mix_delta_uv_prime]: A + t·B at the ratio t that
+    comes nearest the white [ratio_luminance, ratio_power]. 'antipode
+    partner' ranks by this quantity; its entries carry it under the same key
+    (and, for historical reasons, under delta_uv_prime too), and its spectral
+    RMS is also taken at the best ratio. For a pair that is already at its
+    best ratio the two commands agree, up to the grid the residual is taken
+    on (partner: 360–830 nm at 1 nm for most illuminants).
+
 Subtractive (filters or transparent inks stacked, --as transmittance): the
 luminous transmittance Y of the stack (0–100) under the illuminant and the
 chroma C*ab of what passes. Verdict "black" (Y ≤ --black-y), "neutral" (Y ≤
 --neutral-y and C*ab ≤ --neutral-chroma) or "none". --factor-a and --factor-b
 scale each layer by Beer–Lambert (T^f: f = 2 is twice the thickness).
+delta_uv_prime is then Δu′v′ of the light the stack passes; the keys of the
+additive check are null.
 
 --also repeats the check under other illuminants, with both observers, and
 shows where a metameric complement breaks. --uncertainty VALUE (standard
 uncertainty of every sample, in the files' units) gives the probability that
 the true Δu′v′ is within tolerance. A and B are files with one spectrum each, or
-FILE:NAME. Exit status 0 whatever the verdict; with --strict, 1 when the
-verdict is "none". See 'antipode help tolerances'.`,
+FILE:NAME; - reads standard input and -:NAME names one of its spectra (only
+one of A and B can come from standard input). Exit status 0 whatever the
+verdict; with --strict, 1 when the verdict is "none". See 'antipode help
+tolerances'.`,
 		example: `  $ antipode pair cmd/antipode/demo/filters.csv:gel-straw cmd/antipode/demo/filters.csv:gel-steel-blue --mode subtractive
   $ antipode pair lamps.csv:wash-amber lamps.csv:wash-blue --illuminant D65 --also A,F11 --json`,
 		run: runPair,
@@ -84,11 +103,13 @@ type robustRow struct {
 
 // pairFlags are the flags "pair" and "partner" share.
 type pairFlags struct {
+	cmd                                   string // "pair" or "partner", from the flag set
 	mode, as, illuminant, observer, scale string
 	opt                                   complement.Options
 }
 
 func (p *pairFlags) define(fs *flag.FlagSet) {
+	p.cmd = fs.Name()
 	fs.StringVar(&p.mode, "mode", "additive", "`additive` (add to white) or subtractive (stack to black)")
 	fs.StringVar(&p.as, "as", "", "what the spectra are: `light`, reflectance or transmittance (default: light for additive, transmittance for subtractive)")
 	fs.StringVar(&p.illuminant, "illuminant", "D65", "the white (lights) or the viewing illuminant: a CIE `NAME` or a FILE")
@@ -106,6 +127,9 @@ func (p *pairFlags) define(fs *flag.FlagSet) {
 // resolve checks the flags and returns the complement mode and the
 // conditions.
 func (p *pairFlags) resolve(e *env) (complement.Mode, *complement.Conditions, string, error) {
+	if err := p.checkOptions(); err != nil {
+		return 0, nil, "", err
+	}
 	switch p.mode {
 	case "additive":
 		if p.as == "" {
@@ -151,21 +175,141 @@ func (p *pairFlags) resolve(e *env) (complement.Mode, *complement.Conditions, st
 	return m, c, name, nil
 }
 
-// load reads one spectrum argument for the pair's mode.
-func (p *pairFlags) load(e *env, arg string, role string) (spectrumIn, colorimetry.Spectrum, []string, error) {
+// checkOptions checks the tolerance and layer flags before any file is
+// read, naming the flag. The complement package would name its Options
+// field instead, and it takes 0 for "the default", which from the command
+// line would silently replace a value the user typed.
+func (p *pairFlags) checkOptions() error {
+	for _, f := range []struct {
+		flag  string
+		v     float64
+		limit float64 // largest allowed value
+	}{
+		{"--tolerance-uv-prime", p.opt.DeltaUVPrime, math.MaxFloat64},
+		{"--tolerance-spectral", p.opt.SpectralRMS, math.MaxFloat64},
+		{"--black-y", p.opt.BlackY, 100},
+		{"--neutral-y", p.opt.NeutralY, 100},
+		{"--neutral-chroma", p.opt.NeutralChroma, math.MaxFloat64},
+		{"--factor-a", p.opt.FactorA, math.MaxFloat64},
+		{"--factor-b", p.opt.FactorB, math.MaxFloat64},
+	} {
+		switch {
+		case !(f.v > 0) || math.IsInf(f.v, 0):
+			return usagef("%s %g: want a positive, finite number", f.flag, f.v)
+		case f.v > f.limit:
+			return usagef("%s %g: want a luminous transmittance Y of at most %g", f.flag, f.v, f.limit)
+		}
+	}
+	if p.opt.NeutralY < p.opt.BlackY {
+		return usagef("--neutral-y %g is below --black-y %g: want --neutral-y at or above --black-y", p.opt.NeutralY, p.opt.BlackY)
+	}
+	if p.cmd == "partner" && p.opt.FactorB != 1 {
+		return usagef("--factor-b %g: partner takes the library's spectra as they are (factor 1); scale A with --factor-a, or check one pair with 'antipode pair --factor-b'", p.opt.FactorB)
+	}
+	return nil
+}
+
+// load reads one spectrum argument for the pair's mode. It returns the
+// factor applied to the file's values (0.01 for percent, else 1) and the
+// warnings, each naming the spectrum as role (A or B) and name.
+func (p *pairFlags) load(e *env, arg string, role string) (spectrumIn, colorimetry.Spectrum, float64, []string, error) {
 	list, err := spectrumArg(e, arg)
 	if err != nil {
-		return spectrumIn{}, colorimetry.Spectrum{}, nil, err
+		return spectrumIn{}, colorimetry.Spectrum{}, 0, nil, err
 	}
 	if len(list) != 1 {
-		return spectrumIn{}, colorimetry.Spectrum{}, nil, usagef("%s: %s holds %d spectra; name one as FILE:NAME", role, arg, len(list))
+		return spectrumIn{}, colorimetry.Spectrum{}, 0, nil, usagef("%s: %s holds %s; name one as %s", role, arg, plural(len(list), "spectrum", "spectra"), nameOne(arg))
 	}
 	in := list[0]
 	if p.as == "light" {
-		return in, in.s.WithExtrap(colorimetry.ExtrapZero), nil, nil
+		return in, in.s.WithExtrap(colorimetry.ExtrapZero), 1, nil, nil
 	}
-	s, _, _, warns, err := asFraction(in, p.scale, p.as)
-	return in, s, warns, err
+	s, factor, _, warns, err := asFraction(in, p.scale, p.as)
+	return in, s, factor, prefixAll(warns, role+" ("+in.name+"): "), err
+}
+
+// prefixAll returns ws with prefix put before each (nil for none), so that
+// a warning names the spectrum it concerns.
+func prefixAll(ws []string, prefix string) []string {
+	var out []string
+	for _, w := range ws {
+		out = append(out, prefix+w)
+	}
+	return out
+}
+
+// nameWarning rewrites a warning of the complement package, which calls
+// the two spectra "a" and "b", so that it names them as the report does:
+// "A (name)" and "B (name)". It also says plainly why ΔDuv is missing
+// instead of stacking the causes. Other warnings pass unchanged.
+func nameWarning(w, a, b string) string {
+	la, lb := "A ("+a+")", "B ("+b+")"
+	const cct = "correlated colour temperature not defined: "
+	for _, r := range []struct{ old, new string }{
+		{"ΔDuv not given: CCT of the sum: " + cct, "ΔDuv not given, as A + B has no correlated colour temperature: "},
+		{"ΔDuv not given: CCT of the sum: ", "ΔDuv not given, as A + B has no correlated colour temperature: "},
+		{"ΔDuv not given: CCT of the white: " + cct, "ΔDuv not given, as the white has no correlated colour temperature: "},
+		{"ΔDuv not given: CCT of the white: ", "ΔDuv not given, as the white has no correlated colour temperature: "},
+		{"a dips below zero", la + " dips below zero"},
+		{"b dips below zero", lb + " dips below zero"},
+		{"a and b have the same chromaticity", la + " and " + lb + " have the same chromaticity"},
+		{"the nearest mix is a alone: adding b only", "the nearest mix is " + la + " alone: adding " + lb + " only"},
+		{"the nearest mix is b alone: adding a only", "the nearest mix is " + lb + " alone: adding " + la + " only"},
+	} {
+		if strings.HasPrefix(w, r.old) {
+			return r.new + w[len(r.old):]
+		}
+	}
+	return w
+}
+
+// lightsHint returns a warning when both spectra of a subtractive check
+// exceed 1 (as fractions, after the scale decision) by more than the noise
+// asFraction allows: they look like light spectra, and stacking them as
+// filters means nothing. peakA and peakB are the largest values.
+func lightsHint(peakA, peakB float64) []string {
+	// 1.05: the level above which asFraction warns that a transmittance
+	// exceeds 1 (common practice, no source).
+	if peakA > 1.05 && peakB > 1.05 {
+		return []string{fmt.Sprintf("A and B both exceed 1 (largest values %.4g and %.4g): they look like lights, not filters; the subtractive check stacks transmittances 0–1 (for lights use --mode additive)", peakA, peakB)}
+	}
+	return nil
+}
+
+// nameOne says how to name one spectrum of the argument arg.
+func nameOne(arg string) string {
+	if isStdin(arg) {
+		return "-:NAME"
+	}
+	return "FILE:NAME"
+}
+
+// isStdin reports whether the spectrum argument arg reads standard input:
+// "-", or "-:NAME" when no file has that name.
+func isStdin(arg string) bool {
+	if arg == "-" {
+		return true
+	}
+	if !strings.HasPrefix(arg, "-:") {
+		return false
+	}
+	_, err := os.Stat(arg)
+	return err != nil
+}
+
+// oneStdin refuses more than one spectrum argument from standard input,
+// which can be read only once.
+func oneStdin(args ...string) error {
+	var from []string
+	for _, a := range args {
+		if isStdin(a) {
+			from = append(from, a)
+		}
+	}
+	if len(from) > 1 {
+		return usagef("%s all read standard input, which can be read once: give at most one of them as - or -:NAME", strings.Join(from, ", "))
+	}
+	return nil
 }
 
 func runPair(e *env, args []string) error {
@@ -184,17 +328,26 @@ func runPair(e *env, args []string) error {
 		return err
 	}
 	if len(pos) != 2 {
-		return usagef("want two spectra A and B (got %d arguments)", len(pos))
+		return usagef("want two spectra A and B (got %s)", plural(len(pos), "argument", "arguments"))
+	}
+	if err := oneStdin(pos...); err != nil {
+		return err
+	}
+	var u float64 // --uncertainty, in the files' units
+	if unc != "" {
+		if _, err := fmt.Sscanf(unc, "%g", &u); err != nil || !(u >= 0) || math.IsInf(u, 0) {
+			return usagef("--uncertainty %s: want a non-negative number", unc)
+		}
 	}
 	m, cond, illName, err := pf.resolve(e)
 	if err != nil {
 		return err
 	}
-	inA, a, wa, err := pf.load(e, pos[0], "A")
+	inA, a, fa, wa, err := pf.load(e, pos[0], "A")
 	if err != nil {
 		return err
 	}
-	inB, b, wb, err := pf.load(e, pos[1], "B")
+	inB, b, fb, wb, err := pf.load(e, pos[1], "B")
 	if err != nil {
 		return err
 	}
@@ -212,6 +365,9 @@ func runPair(e *env, args []string) error {
 		r.Verdict = res.Verdict
 		r.StackY, r.StackChroma, r.DeltaUVPrime = ptr(res.StackY), ptr(res.StackChroma), res.DeltaUVPrime
 		r.Warnings = append(r.Warnings, res.Warnings...)
+		peakA, _ := a.Max()
+		peakB, _ := b.Max()
+		r.Warnings = append(r.Warnings, lightsHint(peakA, peakB)...)
 	} else {
 		r.Tolerances = map[string]float64{"uv_prime": pf.opt.DeltaUVPrime, "spectral_rms": pf.opt.SpectralRMS}
 		res, err := cond.CheckAdditive(a, b, m, pf.opt)
@@ -230,14 +386,8 @@ func runPair(e *env, args []string) error {
 		r.MixUV, r.LineDistance = ptr(ratio.DeltaUVPrime), ptr(ratio.LineDistanceUVPrime)
 		r.Warnings = append(r.Warnings, ratio.Warnings...)
 		if unc != "" {
-			var u float64
-			if _, err := fmt.Sscanf(unc, "%g", &u); err != nil || !(u >= 0) || math.IsInf(u, 0) {
-				return usagef("--uncertainty %s: want a non-negative number", unc)
-			}
-			fa, fb := 1.0, 1.0
-			if pf.as != "light" && pf.scale == "percent" {
-				fa, fb = 0.01, 0.01
-			}
+			// In the files' units: percent files were scaled by 0.01 (also
+			// when the scale was detected, not given).
 			ua, err := constantUncertainty(a, u*fa)
 			if err != nil {
 				return err
@@ -255,6 +405,9 @@ func runPair(e *env, args []string) error {
 	}
 	if unc != "" && m == complement.Filters {
 		r.Warnings = append(r.Warnings, "--uncertainty gives a confidence for additive checks only")
+	}
+	for i, w := range r.Warnings {
+		r.Warnings[i] = nameWarning(w, r.A, r.B)
 	}
 	if also != "" {
 		ills := []colorimetry.NamedIlluminant{{Name: illName, Spectrum: cond.Illuminant()}}
@@ -327,10 +480,10 @@ func printPair(e *env, r pairResult) {
 		add("stack C*ab", r.StackChroma, "%.2f", fmt.Sprintf("neutral ≤ %g", r.Tolerances["neutral_chroma"]))
 		add("Δu′v′ of stack to white", r.DeltaUVPrime, "%.4f", "")
 	} else {
-		add("Δu′v′ of A + B to white", r.DeltaUVPrime, "%.5f", fmt.Sprintf("tolerance %g", r.Tolerances["uv_prime"]))
-		add("spectral RMS residual", r.SpectralRMS, "%.4f", fmt.Sprintf("of the white's peak; tolerance %g", r.Tolerances["spectral_rms"]))
-		add("spectral max residual", r.SpectralMax, "%.4f", "")
-		add("scale of the white", r.Scale, "%.4g", "best fit of A + B to s·white")
+		add("Δu′v′ of A + B as given, to white", r.DeltaUVPrime, "%.5f", fmt.Sprintf("tolerance %g", r.Tolerances["uv_prime"]))
+		add("spectral RMS residual, as given", r.SpectralRMS, "%.4f", fmt.Sprintf("of the white's peak; tolerance %g", r.Tolerances["spectral_rms"]))
+		add("spectral max residual, as given", r.SpectralMax, "%.4f", "")
+		add("scale of the white", r.Scale, "%.4g", "best fit of A + B as given to s·white")
 		add("ΔDuv", r.DeltaDuv, "%+.5f", "")
 		add("ΔE00 (luminance normalised)", r.DE00, "%.2f", "")
 		add("best ratio A:B by luminance", r.RatioLum, "%.4g", "")

@@ -54,6 +54,9 @@ the illuminant), ranked by the residual chroma. --paint names a colorant of
 the model, or a measured reflectance (FILE or FILE:NAME): its scattering is
 then estimated from the model recipe that matches it best. Achromatic
 colorants (white, blacks) are not offered: they only dilute the colour.
+A colorant is listed as a neutraliser only when its greyest mix lowers the
+paint's chroma by at least 1 C*ab and by at least 10 %; the others are named
+on the "no neutral crossing" line (and carry "neutralises": false in JSON).
 
 The fraction is the colorant's share of the mix; the ratio is parts of
 colorant per part of paint by mass.`,
@@ -157,6 +160,15 @@ func runCorrect(e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	for _, a := range am {
+		if !isColorant(p, a.Name) {
+			return fmt.Errorf("%s: no colorant %q in the model (it has %s)", recipe, a.Name, strings.Join(p.Names(), ", "))
+		}
+	}
+	// Correct normalises the recipe and warns (in the recipe's warnings)
+	// when the fractions do not sum to 1; the table's "was" shows the
+	// proportions it used, so that "change" compares like with like.
+	sum, sumWarn := fractionSum(am)
 	tin, ts, w1, err := oneSpectrum(e, "target", target, rf.scale)
 	if err != nil {
 		return err
@@ -167,6 +179,9 @@ func runCorrect(e *env, args []string) error {
 	}
 	res, err := p.Correct(am, rs, ts, opt)
 	if err != nil {
+		if r, ok := strings.CutPrefix(err.Error(), "recipe: "); ok {
+			return fmt.Errorf("%s: %s", recipe, r)
+		}
 		return fmt.Errorf("%s against %s: %v", rin.place(), tin.place(), err)
 	}
 	rec := res.Recipe
@@ -185,13 +200,17 @@ func runCorrect(e *env, args []string) error {
 	if asJSON {
 		return writeSolution(e, mixing.Solution{Recipes: []mixing.Recipe{rec}})
 	}
-	fmt.Fprintf(e.stdout, "Correction of %s\nfrom trial %s, target %s\nunder %s, %s\n\n", amountText(am), rin.place(), tin.place(), opt.Illuminant.Name, opt.Observer.Name())
+	fmt.Fprintf(e.stdout, "Correction of %s\n", amountText(am))
+	if len(sumWarn) > 0 {
+		fmt.Fprintf(e.stdout, "(%s, which \"was\" below shows)\n", sumWarn[0])
+	}
+	fmt.Fprintf(e.stdout, "from trial %s, target %s\nunder %s, %s\n\n", rin.place(), tin.place(), opt.Illuminant.Name, opt.Observer.Name())
 	fmt.Fprintf(e.stdout, "trial against target:      ΔE00 %.2f\n", res.TrialDE00)
 	fmt.Fprintf(e.stdout, "trial against the model:   ΔE00 %.2f (how far the calibration was off for this recipe)\n", res.ModelDE00)
 	fmt.Fprintln(e.stdout, "\ncorrected recipe (mass fractions):")
 	old := map[string]float64{}
 	for _, a := range am {
-		old[strings.ToLower(a.Name)] = a.Value
+		old[strings.ToLower(a.Name)] += a.Value / sum
 	}
 	var t table
 	t.header("   colorant", "was", "now", "change")
@@ -232,12 +251,37 @@ type neutralJSON struct {
 }
 
 type neutralCandJSON struct {
-	Colorant string             `json:"colorant"`
-	Fraction float64            `json:"fraction"`
-	Ratio    *float64           `json:"ratio"`
-	Chroma   float64            `json:"residual_chroma"`
-	Lab      map[string]float64 `json:"lab"`
-	Interior bool               `json:"interior"`
+	Colorant    string             `json:"colorant"`
+	Fraction    float64            `json:"fraction"`
+	Ratio       *float64           `json:"ratio"`
+	Chroma      float64            `json:"residual_chroma"`
+	Lab         map[string]float64 `json:"lab"`
+	Interior    bool               `json:"interior"`
+	Neutralises bool               `json:"neutralises"`
+}
+
+// A colorant neutralises a paint when its greyest mix lies inside the
+// mixing line (Interior) and lowers the paint's chroma C*ab by at least
+// neutralMinDrop and by at least the share neutralMinShare of it.
+//
+// The absolute floor, 1 C*ab, is about one just-noticeable difference in
+// CIELAB (common practice, no source): a smaller drop cannot be seen, nor
+// told from the model's error. The relative floor, 10 %, rejects the small
+// dip in chroma that mixing any two colorants of neighbouring hue gives
+// (subtractive mixing darkens and dulls a little): ky-sunflower in
+// ky-barn-red dips from C*ab 57.5 to 57.3 at a fraction of 0.56 without
+// cancelling any hue. A complement brings the chroma down by far more
+// (ky-deep-sea takes the same red to 0.3).
+const (
+	neutralMinDrop  = 1.0 // C*ab units
+	neutralMinShare = 0.1 // of the paint's C*ab
+)
+
+// neutralises reports whether n is a neutraliser of a paint of chroma
+// paintC (C*ab), by the criterion above.
+func neutralises(n mixing.Neutraliser, paintC float64) bool {
+	drop := paintC - n.Chroma
+	return n.Interior && drop >= neutralMinDrop && drop >= neutralMinShare*paintC
 }
 
 func labMap(l colorimetry.Lab) map[string]float64 {
@@ -289,7 +333,8 @@ func runNeutralize(e *env, args []string) error {
 	if asJSON {
 		out := neutralJSON{Paint: res.Paint, PaintLab: labMap(res.PaintLab), PaintChroma: res.PaintChroma, Illuminant: ill.Name, Observer: o.Name(), Warnings: nonNil(res.Warnings), Candidates: []neutralCandJSON{}}
 		for _, n := range res.Candidates {
-			cj := neutralCandJSON{Colorant: n.Colorant, Fraction: n.Fraction, Chroma: n.Chroma, Lab: labMap(n.Lab), Interior: n.Interior}
+			cj := neutralCandJSON{Colorant: n.Colorant, Fraction: n.Fraction, Chroma: n.Chroma, Lab: labMap(n.Lab), Interior: n.Interior,
+				Neutralises: neutralises(n, res.PaintChroma)}
 			if !math.IsInf(n.Ratio, 0) {
 				r := n.Ratio
 				cj.Ratio = &r
@@ -314,7 +359,7 @@ func runNeutralize(e *env, args []string) error {
 	t.header("colorant", "fraction", "parts per part paint", "residual C*ab", "L* of the grey", "hue left")
 	var none []string
 	for _, n := range res.Candidates {
-		if !n.Interior {
+		if !neutralises(n, res.PaintChroma) {
 			none = append(none, n.Colorant)
 			continue
 		}
@@ -326,7 +371,7 @@ func runNeutralize(e *env, args []string) error {
 		fmt.Fprintln(e.stdout, "no colorant of the model brings this paint closer to grey than the paint itself")
 	}
 	if len(none) > 0 {
-		fmt.Fprintf(e.stdout, "no neutral crossing (the mix is never greyer than the paint or the colorant alone): %s\n", strings.Join(none, ", "))
+		fmt.Fprintf(e.stdout, "no neutral crossing (no mix is greyer than the paint by %g C*ab and %.0f %%, nor than the colorant alone): %s\n", neutralMinDrop, 100*neutralMinShare, strings.Join(none, ", "))
 	}
 	for _, x := range res.Warnings {
 		fmt.Fprintf(e.stdout, "warning: %s\n", x)

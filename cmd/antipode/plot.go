@@ -55,7 +55,8 @@ func init() {
   swatches  a strip of sRGB swatches, named, with colours outside the sRGB
             gamut marked
 
-describe, pair and complement take --plot FILE to draw their result too.
+describe, pair, complement and solve (for dyes, pigments and halftone models)
+take --plot FILE to draw their result too.
 Figures are written whole or not at all, and never over an input file.`,
 		example: `  $ antipode plot spectra cmd/antipode/demo/paints.csv --out paints.svg
   $ antipode plot diagram cmd/antipode/demo/lamps.csv --as light --pair wash-amber,wash-blue --out lamps.png

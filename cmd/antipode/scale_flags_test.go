@@ -1,0 +1,66 @@
+package main
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"strings"
+	"testing"
+)
+
+// TestScaleFlagOnCheckAndComplement checks the --scale flag of limits
+// --check and complement --as reflectance on a flat 40 % grey written in
+// percent: read as percent it is Y = 40, L* = 116·0.4^⅓ − 16 = 69.4695
+// (CIE 015:2018 §8.2.1), and its additive complement 1 − r is the flat 60 %
+// grey, Y = 60; read as fraction, a reflectance of 40 is not realisable and
+// is flagged as above 1. The flag is refused where it does not apply. Tolerance 1e-9: a flat spectrum's
+// Y is exact to round-off.
+func TestScaleFlagOnCheckAndComplement(t *testing.T) {
+	t.Parallel()
+	var b strings.Builder
+	b.WriteString("wavelength_nm,grey40\n")
+	for nm := 380; nm <= 780; nm += 10 {
+		fmt.Fprintf(&b, "%d,40\n", nm)
+	}
+	f := writeTemp(t, "grey40.csv", b.String())
+
+	code, out, errs := runCLI(t, "", "limits", "--check", f, "--scale", "percent", "--json")
+	if code != 0 {
+		t.Fatalf("limits --check --scale percent: exit %d: %s", code, errs)
+	}
+	var rows []struct {
+		L float64 `json:"L"`
+	}
+	if err := json.Unmarshal([]byte(out), &rows); err != nil || len(rows) != 1 {
+		t.Fatalf("limits --check: %v %s", err, out)
+	}
+	if want := 116*math.Cbrt(0.4) - 16; math.Abs(rows[0].L-want) > 1e-9 {
+		t.Errorf("limits --check: L* %.6f, want %.6f", rows[0].L, want)
+	}
+
+	code, out, errs = runCLI(t, "", "complement", f, "--as", "reflectance", "--scale", "percent", "--json")
+	if code != 0 {
+		t.Fatalf("complement --scale percent: exit %d: %s", code, errs)
+	}
+	var c map[string]any // a map: the keys Y and y differ only in case
+	if err := json.Unmarshal([]byte(out), &c); err != nil {
+		t.Fatal(err)
+	}
+	if y, _ := c["Y"].(float64); math.Abs(y-60) > 1e-9 {
+		t.Errorf("complement of the 40 %% grey: Y %v, want 60", c["Y"])
+	}
+
+	code, out, _ = runCLI(t, "", "limits", "--check", f, "--scale", "fraction")
+	if code != 0 || !strings.Contains(out, "reflectance reaches 40") || !strings.Contains(out, "NO") {
+		t.Errorf("limits --check --scale fraction: exit %d\n%s", code, out)
+	}
+	for _, args := range [][]string{
+		{"limits", "--scale", "percent"},
+		{"limits", "--check", f, "--scale", "pct"},
+		{"complement", f, "--scale", "percent"},
+	} {
+		if code, out, _ := runCLI(t, "", args...); code != 2 || out != "" {
+			t.Errorf("%v: exit %d, stdout %q; want a refusal", args, code, out)
+		}
+	}
+}
