@@ -20,6 +20,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/antipode-color/antipode/cie"
 	"github.com/antipode-color/antipode/colorimetry"
 	"github.com/antipode-color/antipode/complement"
 	"github.com/lucasb-eyer/go-colorful"
@@ -879,8 +880,9 @@ func runPlotSpectra(e *env, args []string) error {
 			ls.values[i] = s.Scale(1 / peaks[i])
 		}
 	}
+	styles := spectrumStyles(ls.values, as == "light")
 	for i, s := range ls.values {
-		curves[i] = curve{name: names[i], s: s, sty: seriesStyle(i)}
+		curves[i] = curve{name: names[i], s: s, sty: styles[i]}
 	}
 	pn, err := spectraPanel("", yLabel, curves, as != "light")
 	if err != nil {
@@ -1061,6 +1063,43 @@ func plotPair(path string, args []string, cond *complement.Conditions, m complem
 	}
 	title := fmt.Sprintf("%s and %s: %s pair, verdict %s", r.A, r.B, r.Mode, r.Verdict)
 	return writeFigure(path, format, &figure{title: title, panels: []*panel{sp, dp}}, twoPanelW, twoPanelH)
+}
+
+// spectrumStyles returns the line style of each spectrum of a spectra
+// chart: drawn in its own colour (a light's chromaticity; a reflectance's
+// or transmittance's under D65 for the CIE 1931 observer), darkened to read
+// on white, so that a red gel's curve is red; where that colour is close
+// to one already used (two similar gels), dashed; where it cannot be
+// computed, the palette's colour and dashes of its place instead.
+func spectrumStyles(values []colorimetry.Spectrum, light bool) []draw.LineStyle {
+	ill := colorimetry.Spectrum{}
+	if !light {
+		ill = cie.D65()
+	}
+	calc := newTristimulus(cie.CIE1931(), ill, light)
+	out := make([]draw.LineStyle, len(values))
+	var used []colorful.Color
+	for i, s := range values {
+		out[i] = seriesStyle(i)
+		c, err := calc.xyzOnly(s)
+		if err != nil {
+			continue
+		}
+		xy, err := c.XY()
+		if err != nil {
+			continue
+		}
+		ink := inkColour(diagramPoint{xy: xy})
+		near := 0 // curves already drawn in a colour like this one
+		for _, u := range used {
+			if ink.DistanceLab(u) < 0.2 {
+				near++
+			}
+		}
+		used = append(used, ink)
+		out[i].Color, out[i].Dashes = ink, plotDashes[near%len(plotDashes)]
+	}
+	return out
 }
 
 // pairStyles returns the line styles of two spectra drawn with their

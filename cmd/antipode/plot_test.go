@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/xml"
 	"fmt"
+	colorful "github.com/lucasb-eyer/go-colorful"
 	"image"
 	"image/color"
 	"image/png"
@@ -246,11 +247,33 @@ func TestPlotSpectraSVG(t *testing.T) {
 	if f.width != "675pt" || f.height != "420pt" {
 		t.Errorf("SVG size %s × %s, want 675pt × 420pt", f.width, f.height)
 	}
-	// The first spectrum is drawn whole: one vertex per sample of the demo
-	// file, 380–780 nm at 5 nm (the demo file's own grid).
-	lines := f.strokes("#1F4E8C", 1.4)
-	if len(lines) != 1 || len(lines[0]) != 81 {
-		t.Fatalf("ky-teal: %d lines, want 1 line of 81 vertices (got %v)", len(lines), lines)
+	// Each spectrum is drawn whole, one vertex per sample of the demo file
+	// (380–780 nm at 5 nm, its own grid), in a colour of its own hue: the
+	// teal's CIELAB hue between 150° and 230°, the ochre's between 40° and
+	// 100° (their hues under D65 are 186.7° and 73.8°, from describe).
+	hues := map[string][2]float64{"ky-teal": {150, 230}, "ky-ochre": {40, 100}}
+	found := map[string]bool{}
+	for _, p := range f.paths {
+		if !strings.Contains(p.style, "stroke-width:1.4") || strings.Contains(p.style, "dasharray") || len(pathVertices(p.d)) != 81 {
+			continue
+		}
+		_, hex, _ := strings.Cut(p.style, "stroke:")
+		hex, _, _ = strings.Cut(hex, ";")
+		c, err := colorful.Hex(strings.ToLower(hex))
+		if err != nil {
+			t.Fatalf("stroke colour %q: %v", hex, err)
+		}
+		h, _, _ := c.Hcl()
+		for name, r := range hues {
+			if h >= r[0] && h <= r[1] {
+				found[name] = true
+			}
+		}
+	}
+	for name := range hues {
+		if !found[name] {
+			t.Errorf("%s: no 81-vertex curve in a colour of its hue (paths %d)", name, len(f.paths))
+		}
 	}
 }
 
