@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -14,9 +15,16 @@ func writeFileAtomic(path string, data []byte) error {
 		return fmt.Errorf("%s: is a directory, not a file", path)
 	}
 	dir := filepath.Dir(path)
+	if fi, err := os.Stat(dir); err != nil || !fi.IsDir() {
+		return fmt.Errorf("%s: the folder %s does not exist", path, dir)
+	}
 	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp*")
 	if err != nil {
-		return fmt.Errorf("%s: %w", path, err)
+		var pe *os.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err // the temporary name means nothing to the user
+		}
+		return fmt.Errorf("%s: cannot write in %s: %w", path, dir, err)
 	}
 	tmp := f.Name()
 	// CreateTemp makes the file 0600; an output is an ordinary file.
