@@ -292,7 +292,12 @@ func (q *lightQuality) annotate(r *Recipe, w []float64) {
 		if err == nil {
 			err = errRf
 		}
-		r.Warnings = append(r.Warnings, "lighting quality indices not computed: "+err.Error())
+		msg := "lighting quality indices not computed: " + err.Error()
+		if errors.Is(err, colorimetry.ErrCCTRange) {
+			// The CCT warning already gives the figures.
+			msg = "lighting quality indices not computed: they need a correlated colour temperature"
+		}
+		r.Warnings = append(r.Warnings, msg)
 	}
 }
 
