@@ -301,6 +301,7 @@ func printLightsFit(w io.Writer, m *mixing.Lights, chans []lightsChannelJSON, pa
 	for _, s := range r.Samples {
 		fits[s.Name] = append(fits[s.Name], s)
 	}
+	var duvFit, duvHeld []float64
 	for _, rf := range m.Ramps() {
 		q := fits[rf.Name]
 		if len(q) == 0 {
@@ -312,11 +313,31 @@ func printLightsFit(w io.Writer, m *mixing.Lights, chans []lightsChannelJSON, pa
 		if rf.HeldOut {
 			set = "held out"
 		}
+		if d := s.DeltaUVPrime; d != nil {
+			if rf.HeldOut {
+				duvHeld = append(duvHeld, *d)
+			} else {
+				duvFit = append(duvFit, *d)
+			}
+		}
 		st.row(rf.Name, rf.Channel, fmt.Sprintf("%g", rf.Drive), set, fmt.Sprintf("%.4f", rf.Measured), fmt.Sprintf("%.4f", rf.Predicted),
 			fmt.Sprintf("%.5f", s.RMS), fmt.Sprintf("%.5f", s.MaxAbs), fmt.Sprintf("%.2f", s.DE00), fmtOpt(s.DeltaUVPrime, "%.4f"))
 	}
 	st.write(w)
 	printFitSummary(w, r, "measurements", 5, "mark measurements with heldout = 1 or use --holdout")
+	// Δu′v′ beside ΔE00: at low drive CIELAB's cube root of a nearly zero
+	// X or Z magnifies small differences in ΔE00, not in Δu′v′.
+	summary := func(d []float64) string {
+		if len(d) == 0 {
+			return "none"
+		}
+		var sum, top float64
+		for _, v := range d {
+			sum, top = sum+v, max(top, v)
+		}
+		return fmt.Sprintf("mean %.4f, max %.4f", sum/float64(len(d)), top)
+	}
+	fmt.Fprintf(w, "Δu′v′:    fit %s; held out %s (steadier than ΔE00 at low drive)\n", summary(duvFit), summary(duvHeld))
 	printClosing(w, "\n", r.Warnings, out)
 }
 

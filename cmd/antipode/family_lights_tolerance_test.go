@@ -2,6 +2,8 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -116,5 +118,39 @@ func TestSolveToleranceBuysNothing(t *testing.T) {
 		if ra := p.(map[string]any)["ra"]; ra != ra0 {
 			t.Errorf("trade-off Ra %v, at share 0 %v", ra, ra0)
 		}
+	}
+}
+
+// TestLightsFitDeltaUVSummary checks the Δu′v′ summary line of the text
+// fit report against the per-measurement figures of the same fit's JSON:
+// mean and maximum of the fitted and of the held-out measurements, as
+// printed to 4 decimals.
+func TestLightsFitDeltaUVSummary(t *testing.T) {
+	t.Parallel()
+	_, rep := lightsFitDemo(t)
+	var sum, top [2]float64
+	var n [2]int
+	for _, s := range rep["fit"].(map[string]any)["samples"].([]any) {
+		m := s.(map[string]any)
+		d, ok := m["delta_uv_prime"].(float64)
+		if !ok {
+			continue
+		}
+		k := 0
+		if m["held_out"].(bool) {
+			k = 1
+		}
+		sum[k], top[k], n[k] = sum[k]+d, max(top[k], d), n[k]+1
+	}
+	if n[0] == 0 || n[1] == 0 {
+		t.Fatalf("measurements with Δu′v′: %d fitted, %d held out", n[0], n[1])
+	}
+	code, out, errs := runCLI(t, "", "fit", "lights", "demo/rig_ramps.csv", "--out", filepath.Join(t.TempDir(), "rig.json"))
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	want := fmt.Sprintf("Δu′v′:    fit mean %.4f, max %.4f; held out mean %.4f, max %.4f", sum[0]/float64(n[0]), top[0], sum[1]/float64(n[1]), top[1])
+	if !strings.Contains(out, want) {
+		t.Errorf("no line %q in the report", want)
 	}
 }
