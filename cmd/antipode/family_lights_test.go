@@ -36,6 +36,23 @@ func lightsFitDemo(t *testing.T, extra ...string) (string, map[string]any) {
 	return out, rep
 }
 
+// solveRecipes runs a solve command (args include --json) that must
+// succeed and returns its ranked recipes.
+func solveRecipes(t *testing.T, args ...string) []map[string]any {
+	t.Helper()
+	code, out, errs := runCLI(t, "", args...)
+	if code != 0 {
+		t.Fatalf("%v: exit %d: %s", args, code, errs)
+	}
+	var sol struct {
+		Recipes []map[string]any `json:"recipes"`
+	}
+	if err := json.Unmarshal([]byte(out), &sol); err != nil {
+		t.Fatal(err)
+	}
+	return sol.Recipes
+}
+
 func TestLightsFitDemo(t *testing.T) {
 	t.Parallel()
 	_, rep := lightsFitDemo(t)
@@ -135,21 +152,12 @@ func TestLightsMixAgreesWithLibrary(t *testing.T) {
 func TestLightsComplementDemo(t *testing.T) {
 	t.Parallel()
 	model, _ := lightsFitDemo(t)
-	code, out, errs := runCLI(t, "", "solve", model, "--cct", "4000", "--add", "demo/rig_filtered.csv", "--json")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
-	var sol struct {
-		Recipes []map[string]any `json:"recipes"`
-	}
-	if err := json.Unmarshal([]byte(out), &sol); err != nil {
-		t.Fatal(err)
-	}
-	if len(sol.Recipes) < 2 {
-		t.Fatalf("%d recipes", len(sol.Recipes))
+	recipes := solveRecipes(t, "solve", model, "--cct", "4000", "--add", "demo/rig_filtered.csv", "--json")
+	if len(recipes) < 2 {
+		t.Fatalf("%d recipes", len(recipes))
 	}
 	for _, k := range []string{"amounts", "dE00", "reachable", "warnings", "x", "y", "delta_uv_prime", "cct_kelvin", "duv", "efficacy_lm_per_w", "strategy"} {
-		if _, ok := sol.Recipes[0][k]; !ok {
+		if _, ok := recipes[0][k]; !ok {
 			t.Errorf("key %q missing", k)
 		}
 	}
@@ -166,7 +174,7 @@ func TestLightsComplementDemo(t *testing.T) {
 	tab, _ := colorimetry.NewPlanckianTable(obs, colorimetry.C2)
 	target, _ := tab.UV(4000, 0)
 	w, _ := colorimetry.NewLightWeights(obs, colorimetry.Grid5nm)
-	for _, r := range sol.Recipes {
+	for _, r := range recipes {
 		if r["reachable"] != true {
 			t.Fatalf("%v: not reachable", r["strategy"])
 		}
@@ -193,8 +201,8 @@ func TestLightsComplementDemo(t *testing.T) {
 			t.Errorf("%v: CCT %+v %v", r["strategy"], cct, err)
 		}
 	}
-	if sol.Recipes[0]["strategy"] != mixing.StrategyLeastAdded {
-		t.Errorf("first recipe %v", sol.Recipes[0]["strategy"])
+	if recipes[0]["strategy"] != mixing.StrategyLeastAdded {
+		t.Errorf("first recipe %v", recipes[0]["strategy"])
 	}
 }
 

@@ -95,17 +95,7 @@ func TestSolveTolerance(t *testing.T) {
 func TestSolveToleranceBuysNothing(t *testing.T) {
 	t.Parallel()
 	model, _ := lightsFitDemo(t)
-	code, out, errs := runCLI(t, "", "solve", model, "--cct", "4000", "--maximize", "ra", "--tolerance-uv-prime", "0.002", "--json")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
-	var sol struct {
-		Recipes []map[string]any `json:"recipes"`
-	}
-	if err := json.Unmarshal([]byte(out), &sol); err != nil {
-		t.Fatal(err)
-	}
-	first := sol.Recipes[0]
+	first := solveRecipes(t, "solve", model, "--cct", "4000", "--maximize", "ra", "--tolerance-uv-prime", "0.002", "--json")[0]
 	if d := first["delta_uv_prime"].(float64); d > 1e-9 {
 		t.Errorf("Δu′v′ %g: the recipe left the target for a gain that does not show", d)
 	}
