@@ -59,20 +59,34 @@ func selectColumns(in []spectrumIn, names string, file string) ([]spectrumIn, er
 	var out []spectrumIn
 	for _, want := range strings.Split(names, ",") {
 		want = strings.TrimSpace(want)
-		found := false
+		var hits []spectrumIn
 		for _, s := range in {
 			if strings.EqualFold(s.name, want) {
-				out = append(out, s)
-				found = true
-				break
+				hits = append(hits, s)
 			}
 		}
-		if !found {
-			have := make([]string, 0, len(in))
-			for _, s := range in {
+		switch len(hits) {
+		case 0:
+			const maxListed = 12
+			have := make([]string, 0, maxListed+1)
+			for i, s := range in {
+				if i == maxListed {
+					have = append(have, fmt.Sprintf("and %d more", len(in)-maxListed))
+					break
+				}
 				have = append(have, s.name)
 			}
 			return nil, fmt.Errorf("%s: no spectrum named %q (the file has: %s)", file, want, strings.Join(have, ", "))
+		case 1:
+			out = append(out, hits[0])
+		default:
+			// The rows layout and CGATS allow a name twice (repeat
+			// measurements); picking one silently would be a guess.
+			where := make([]string, len(hits))
+			for i, h := range hits {
+				where[i] = strconv.Itoa(h.line)
+			}
+			return nil, fmt.Errorf("%s: %d spectra are named %q (lines %s): the name does not say which", file, len(hits), want, strings.Join(where, ", "))
 		}
 	}
 	return out, nil

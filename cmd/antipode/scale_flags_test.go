@@ -64,3 +64,26 @@ func TestScaleFlagOnCheckAndComplement(t *testing.T) {
 		}
 	}
 }
+
+// TestAmbiguousName checks that FILE:NAME refuses a name that two spectra
+// of a rows-layout file share (repeat measurements are allowed there),
+// naming both lines, instead of taking one of them; and that the list of
+// names in a "no spectrum named" message is cut after 12.
+func TestAmbiguousName(t *testing.T) {
+	t.Parallel()
+	f := writeTemp(t, "dup.csv", "name,400,500,600,700\nred,0.1,0.1,0.5,0.6\nred,0.1,0.2,0.5,0.6\nblue,0.5,0.3,0.1,0.1\n")
+	code, out, errs := runCLI(t, "", "pair", f+":red", f+":blue", "--as", "reflectance")
+	if code != 2 || out != "" || !strings.Contains(errs, `2 spectra are named "red" (lines 2, 3)`) {
+		t.Errorf("ambiguous name: exit %d, stdout %q, stderr %q", code, out, errs)
+	}
+	var b strings.Builder
+	b.WriteString("name,400,500,600,700\n")
+	for i := range 20 {
+		fmt.Fprintf(&b, "s%02d,0.1,0.2,0.3,0.4\n", i)
+	}
+	g := writeTemp(t, "many.csv", b.String())
+	_, _, errs = runCLI(t, "", "pair", g+":nope", g+":s01", "--as", "reflectance")
+	if !strings.Contains(errs, "s11, and 8 more)") || strings.Contains(errs, "s12") {
+		t.Errorf("names list not cut after 12: %q", errs)
+	}
+}
