@@ -638,6 +638,8 @@ func (d *describer) objectColour(r *describeRow, c, wxyz colorimetry.XYZ) error 
 		if !inGamut {
 			r.Warnings = append(r.Warnings, "outside the sRGB gamut: the swatch "+hex+" is clipped")
 		}
+	} else {
+		r.Warnings = append(r.Warnings, "no sRGB swatch: the illuminant is too far from any white for a chromatic adaptation (Bradford) to sRGB's D65")
 	}
 	return nil
 }

@@ -87,3 +87,21 @@ func TestAmbiguousName(t *testing.T) {
 		t.Errorf("names list not cut after 12: %q", errs)
 	}
 }
+
+// TestDescribeNoSwatchSaysWhy checks that describe explains an empty sRGB
+// column: under a deep-red LED as illuminant the Bradford adaptation to
+// D65 has no positive cone response for the white, so there is no swatch.
+func TestDescribeNoSwatchSaysWhy(t *testing.T) {
+	t.Parallel()
+	code, out, errs := runCLI(t, "", "describe", "demo/paints.csv", "--illuminant", "demo/lamps.csv:wash-red", "--column", "ky-sage", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var rows []map[string]any
+	if err := json.Unmarshal([]byte(out), &rows); err != nil || len(rows) != 1 {
+		t.Fatalf("%v %s", err, out)
+	}
+	if rows[0]["srgb"] != nil || !strings.Contains(fmt.Sprint(rows[0]["warnings"]), "no sRGB swatch") {
+		t.Errorf("srgb %v, warnings %v", rows[0]["srgb"], rows[0]["warnings"])
+	}
+}
