@@ -108,7 +108,14 @@ func observerFlag(name string) (*colorimetry.Observer, error) {
 func illuminantFlag(e *env, flag, name string) (colorimetry.Spectrum, string, error) {
 	s, err := cie.Illuminant(name)
 	if err == nil {
-		return s, name, nil
+		// The CIE's spelling in messages: "d65" is shown as D65.
+		n := strings.TrimSpace(name)
+		if fam, arg, ok := strings.Cut(n, ":"); ok {
+			n = strings.ToLower(strings.TrimSpace(fam)) + ":" + strings.TrimSpace(arg)
+		} else {
+			n = strings.ToUpper(n)
+		}
+		return s, n, nil
 	}
 	if _, statErr := os.Stat(fileOf(name)); statErr != nil {
 		if msg, ok := illuminantParamProblem(name, err); ok {

@@ -105,3 +105,15 @@ func TestDescribeNoSwatchSaysWhy(t *testing.T) {
 		t.Errorf("srgb %v, warnings %v", rows[0]["srgb"], rows[0]["warnings"])
 	}
 }
+
+// TestIlluminantSpelling checks that a CIE illuminant typed in any case is
+// shown in the CIE's spelling (D65, LED-B3, daylight:5000).
+func TestIlluminantSpelling(t *testing.T) {
+	t.Parallel()
+	for typed, shown := range map[string]string{"d65": "under D65,", "led-b3": "under LED-B3,", "Daylight:5000": "under daylight:5000,"} {
+		code, out, errs := runCLI(t, "", "describe", "demo/paints.csv", "--illuminant", typed, "--column", "ky-sage")
+		if code != 0 || !strings.Contains(out, shown) {
+			t.Errorf("--illuminant %s: exit %d, want %q in\n%s%s", typed, code, shown, out, errs)
+		}
+	}
+}
