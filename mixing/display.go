@@ -14,6 +14,10 @@ import (
 // matrix exists.
 var ErrSingularPrimaries = errors.New("display primaries are collinear: no RGB to XYZ matrix")
 
+// ErrWhiteOutsidePrimaries reports a display white that no positive mix of
+// the primaries gives: it lies outside (or on a side of) their triangle.
+var ErrWhiteOutsidePrimaries = errors.New("the white lies outside the primaries' triangle: no positive mix of them gives it")
+
 // DisplayMatrix returns the 3×3 matrix M that takes a display's linear
 // RGB (each 0–1, full drive = 1) to CIE XYZ, from the chromaticities of
 // its red, green and blue primaries and of its white (R = G = B = 1),
@@ -24,9 +28,9 @@ var ErrSingularPrimaries = errors.New("display primaries are collinear: no RGB t
 // M are X, Y, Z; columns R, G, B.
 //
 // It returns an error for a chromaticity that is not finite or has y ≤ 0,
-// a whiteY that is not positive and finite, and ErrSingularPrimaries for
-// collinear primaries or a white that needs a primary at zero or negative
-// luminance.
+// a whiteY that is not positive and finite, ErrSingularPrimaries for
+// collinear primaries, and ErrWhiteOutsidePrimaries for a white that needs
+// a primary at zero or negative luminance.
 func DisplayMatrix(r, g, b, white colorimetry.XY, whiteY float64) ([3][3]float64, error) {
 	var out [3][3]float64
 	for _, c := range []struct {
@@ -52,7 +56,7 @@ func DisplayMatrix(r, g, b, white colorimetry.XY, whiteY float64) ([3][3]float64
 	}
 	for j := range 3 {
 		if !(c.AtVec(j) > 0) {
-			return out, fmt.Errorf("display matrix: the white (%g, %g) lies outside the primaries' triangle: %w", white.X, white.Y, ErrSingularPrimaries)
+			return out, fmt.Errorf("display matrix: white (%g, %g): %w", white.X, white.Y, ErrWhiteOutsidePrimaries)
 		}
 		for i := range 3 {
 			out[i][j] = p.At(i, j) * c.AtVec(j)

@@ -1043,3 +1043,14 @@ func TestLightTargetCCTOutsideLocus(t *testing.T) {
 		}
 	}
 }
+
+// TestDisplayMatrixWhiteOutside checks that a white outside the primaries'
+// triangle is reported as such, not as collinear primaries.
+func TestDisplayMatrixWhiteOutside(t *testing.T) {
+	t.Parallel()
+	_, err := DisplayMatrix(colorimetry.XY{X: 0.64, Y: 0.33}, colorimetry.XY{X: 0.30, Y: 0.60},
+		colorimetry.XY{X: 0.15, Y: 0.06}, colorimetry.XY{X: 0.7, Y: 0.25}, 1)
+	if !errors.Is(err, ErrWhiteOutsidePrimaries) || errors.Is(err, ErrSingularPrimaries) {
+		t.Errorf("white outside the triangle: %v", err)
+	}
+}

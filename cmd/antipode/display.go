@@ -47,6 +47,7 @@ type displayOut struct {
 	RGBToXYZ  [3][3]float64   `json:"rgb_to_xyz"`
 	XYZToRGB  [3][3]float64   `json:"xyz_to_rgb"`
 	Balance   *displayBalance `json:"balance"`
+	Warnings  []string        `json:"warnings"`
 }
 
 // displayColour is a named chromaticity (and, for the white, luminance).
@@ -134,6 +135,7 @@ func runDisplay(e *env, args []string) error {
 		out.Primaries[i].X, out.Primaries[i].Y = p.X, p.Y
 	}
 	out.White.X, out.White.Y, out.White.Lum = wxy.X, wxy.Y, &whiteY
+	out.Warnings = append([]string{}, primariesOrder(prim)...)
 	if out.RGBToXYZ, err = mixing.DisplayMatrix(prim[0], prim[1], prim[2], wxy, whiteY); err != nil {
 		return err
 	}
@@ -203,6 +205,11 @@ func printDisplay(e *env, out displayOut) {
 	}
 	printMatrix(fmt.Sprintf("RGB → XYZ (linear drive 0–1; the white at full drive has Y = %g)", *out.White.Lum), out.RGBToXYZ, [3]string{"X", "Y", "Z"}, [3]string{"R", "G", "B"})
 	printMatrix("XYZ → RGB", out.XYZToRGB, [3]string{"R", "G", "B"}, [3]string{"X", "Y", "Z"})
+	defer func() {
+		if len(out.Warnings) > 0 {
+			fmt.Fprintf(w, "\nwarnings:\n  %s\n", joinLines(out.Warnings))
+		}
+	}()
 	if b := out.Balance; b != nil {
 		fmt.Fprintf(w, "\nwhite balance to %s at x %.4f, y %.4f: gains R %.4f, G %.4f, B %.4f; Y %.4g", b.Target.Name, b.Target.X, b.Target.Y, b.Gains[0], b.Gains[1], b.Gains[2], b.Lum)
 		if b.Reachable {
@@ -222,14 +229,29 @@ func parsePrimaries(s string) ([3]colorimetry.XY, error) {
 		return p, usagef("--primaries %s: want six numbers xr,yr,xg,yg,xb,yb", shown(s))
 	}
 	for i := range 3 {
-		c, err := parseXY(strings.TrimSpace(parts[2*i]) + "," + strings.TrimSpace(parts[2*i+1]))
-		if err != nil {
-			return p, usagef("--primaries %s: the %s primary (%s,%s) is not a chromaticity with x > 0, y > 0, x + y < 1",
+		x, err1 := strconv.ParseFloat(strings.TrimSpace(parts[2*i]), 64)
+		y, err2 := strconv.ParseFloat(strings.TrimSpace(parts[2*i+1]), 64)
+		// x + y = 1 (z = 0) is allowed: long-wave primaries (DCI-P3's and
+		// ITU-R BT.2020's reds) lie on the spectrum locus where z̄ ≈ 0.
+		if err1 != nil || err2 != nil || !(x >= 0 && y > 0 && x+y <= 1+1e-9) {
+			return p, usagef("--primaries %s: the %s primary (%s,%s) is not a chromaticity with x ≥ 0, y > 0, x + y ≤ 1",
 				shown(s), []string{"red", "green", "blue"}[i], shown(parts[2*i]), shown(parts[2*i+1]))
 		}
-		p[i] = c
+		p[i] = colorimetry.XY{X: x, Y: y}
 	}
 	return p, nil
+}
+
+// primariesOrder returns a warning when the primaries, taken as red, green
+// and blue, run clockwise round their triangle in the x, y diagram: red →
+// green → blue runs anticlockwise for every RGB display, so a clockwise
+// triangle means two channels were swapped.
+func primariesOrder(p [3]colorimetry.XY) []string {
+	cross := (p[1].X-p[0].X)*(p[2].Y-p[0].Y) - (p[1].Y-p[0].Y)*(p[2].X-p[0].X)
+	if cross < 0 {
+		return []string{"the primaries run clockwise in the x, y diagram: red, green and blue are not in that order (check --channels or --primaries); the matrix follows the order given"}
+	}
+	return nil
 }
 
 // whiteArg resolves a white given to flag as x,y or as a CIE illuminant

@@ -118,3 +118,34 @@ func TestDisplayErrors(t *testing.T) {
 		}
 	}
 }
+
+// TestDisplayWideGamut checks primaries on the spectrum locus (x + y = 1):
+// the ITU-R BT.2020 primaries and D65 white give the RGB→XYZ matrix
+// published with them (from memory, 4 decimals: 0.6370 0.1446 0.1689 /
+// 0.2627 0.6780 0.0593 / 0.0000 0.0281 1.0610); tolerance 1e-4, the
+// rounding of the published figures plus a unit. Channels in the wrong
+// order give a warning, and a white outside the triangle an error that
+// says so (not "collinear").
+func TestDisplayWideGamut(t *testing.T) {
+	t.Parallel()
+	d := displayJSON(t, "--primaries", "0.708,0.292,0.170,0.797,0.131,0.046", "--white", "0.3127,0.3290", "--white-y", "1")
+	want := [3][3]float64{{0.6370, 0.1446, 0.1689}, {0.2627, 0.6780, 0.0593}, {0.0000, 0.0281, 1.0610}}
+	for i := range 3 {
+		for j := range 3 {
+			if math.Abs(d.RGBToXYZ[i][j]-want[i][j]) > 1e-4 {
+				t.Errorf("BT.2020 RGB→XYZ [%d][%d] = %.6f, published %.4f", i, j, d.RGBToXYZ[i][j], want[i][j])
+			}
+		}
+	}
+	if len(d.Warnings) != 0 {
+		t.Errorf("BT.2020: warnings %v", d.Warnings)
+	}
+	swapped := displayJSON(t, "demo/lamps.csv", "--channels", "wash-red,wash-blue,wash-green")
+	if len(swapped.Warnings) != 1 || !strings.Contains(swapped.Warnings[0], "not in that order") {
+		t.Errorf("swapped channels: warnings %v", swapped.Warnings)
+	}
+	code, _, errs := runCLI(t, "", "display", "--primaries", "0.64,0.33,0.30,0.60,0.15,0.06", "--white", "0.7,0.25")
+	if code != 1 && code != 2 || !strings.Contains(errs, "outside the primaries' triangle") || strings.Contains(errs, "collinear") {
+		t.Errorf("white outside: exit %d, %s", code, errs)
+	}
+}
