@@ -523,7 +523,7 @@ func (d *describer) describe(in spectrumIn) (describeRow, error) {
 	r := describeRow{Name: in.name, File: in.file, As: o.as, Observer: calc.obs.Name(), Warnings: []string{}}
 	where := in.place()
 	s := in.s
-	r.DataGrid = dataGrid(s.Grid())
+	r.DataGrid = dataGrid(in)
 	cover, err := checkCoverage(in, o.as == "light")
 	if err != nil {
 		return r, err

@@ -24,7 +24,11 @@ type spectrumIn struct {
 	// column is the spectrum's field number in the columns layout (2 or
 	// more); 1 in the rows layout and CGATS, 0 when unknown.
 	column int
-	s      colorimetry.Spectrum
+	// maxStep is the widest spacing of the file's wavelengths, nm (the
+	// grid step unless the file was irregular and s is resampled); 0 when
+	// unknown.
+	maxStep float64
+	s       colorimetry.Spectrum
 }
 
 // readSpectra reads every spectrum of path ("-" is standard input), in any
@@ -36,7 +40,7 @@ func readSpectra(e *env, path string) ([]spectrumIn, error) {
 	}
 	out := make([]spectrumIn, len(list))
 	for i, n := range list {
-		out[i] = spectrumIn{name: n.Name, file: path, line: n.Line, column: n.Column, s: n.Spectrum}
+		out[i] = spectrumIn{name: n.Name, file: path, line: n.Line, column: n.Column, maxStep: n.MaxStep, s: n.Spectrum}
 	}
 	return out, nil
 }
@@ -318,7 +322,7 @@ func eachSpectrum(e *env, path string, names []string, f func(spectrumIn) error)
 			}
 			want[key] = true
 		}
-		if err := f(spectrumIn{name: n.Name, file: path, line: n.Line, column: n.Column, s: n.Spectrum}); err != nil {
+		if err := f(spectrumIn{name: n.Name, file: path, line: n.Line, column: n.Column, maxStep: n.MaxStep, s: n.Spectrum}); err != nil {
 			return err
 		}
 	}
@@ -441,7 +445,11 @@ func checkCoverage(in spectrumIn, light bool) ([]string, error) {
 		}
 		warns = append(warns, fmt.Sprintf("the data cover only %s–%s nm of %g–%g nm: %s, so the result may be far off", lo, hi, visibleLo, visibleHi, fill))
 	}
-	if g.Step > maxDataStep {
+	switch step := max(g.Step, in.maxStep); {
+	case step <= maxDataStep:
+	case in.maxStep > g.Step:
+		warns = append(warns, fmt.Sprintf("the data leave gaps of up to %s nm over %s–%s nm, wider than %g nm: interpolation across them may be far off", nm6(step), lo, hi, maxDataStep))
+	default:
 		warns = append(warns, fmt.Sprintf("the data are sampled every %s nm over %s–%s nm, coarser than %g nm: interpolation between them may be far off", nm6(g.Step), lo, hi, maxDataStep))
 	}
 	return warns, nil
@@ -473,8 +481,13 @@ func checkOutDir(flagName, path string) error {
 // ends computed as start + i·step print as the file wrote them.
 func nm6(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
 
-// dataGrid describes the grid of data as read, as Grid.String does, with
-// nm6 numbers.
-func dataGrid(g colorimetry.Grid) string {
+// dataGrid describes the sampling of the data as read, as Grid.String
+// does, with nm6 numbers; for irregular wavelengths (resampled on reading)
+// the widest gap they leave.
+func dataGrid(in spectrumIn) string {
+	g := in.s.Grid()
+	if in.maxStep > g.Step*(1+1e-9) {
+		return fmt.Sprintf("%s–%s nm, uneven steps up to %s nm (resampled at %s nm)", nm6(g.Start), nm6(g.End()), nm6(in.maxStep), nm6(g.Step))
+	}
 	return fmt.Sprintf("%s–%s nm at %s nm", nm6(g.Start), nm6(g.End()), nm6(g.Step))
 }

@@ -117,3 +117,20 @@ func TestIlluminantSpelling(t *testing.T) {
 		}
 	}
 }
+
+// TestDescribeUnevenData checks that data with uneven wavelengths (resampled
+// to 1 nm on reading) are reported with their widest gap, in the data line
+// and the data_grid key, and warned when it exceeds 20 nm.
+func TestDescribeUnevenData(t *testing.T) {
+	t.Parallel()
+	f := writeTemp(t, "gap.csv", "nm,s\n380,0.1\n381,0.1\n480,0.3\n580,0.5\n680,0.6\n780,0.6\n")
+	code, out, errs := runCLI(t, "", "describe", f)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{"data: 380–780 nm, uneven steps up to 100 nm (resampled at 1 nm)", "gaps of up to 100 nm"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("no %q in\n%s", want, out)
+		}
+	}
+}

@@ -638,6 +638,7 @@ func (r *CGATSReader) sample(toks []string, ln int) (Named, error) {
 			})
 		}
 		n.Spectrum = sp
+		n.MaxStep = maxStep(s.wl)
 	}
 	n.Fields = make(map[string]string, len(s.textCols)+1)
 	for _, c := range s.textCols {

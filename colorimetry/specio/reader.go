@@ -79,6 +79,11 @@ type Named struct {
 	// Column is the 1-based field number of the spectrum's column in the
 	// columns layout, and 1 in the rows layout.
 	Column int
+	// MaxStep is the largest spacing between adjacent wavelengths of the
+	// file, nm: the grid step for evenly spaced data; for irregular data,
+	// which Spectrum holds resampled onto a finer grid, the widest gap the
+	// measurement left.
+	MaxStep float64
 	// Fields holds the extra (non-wavelength) fields of a line in the rows
 	// layout, keyed by header text ("column N" for an empty header cell),
 	// as written (unquoted fields trimmed of white space). It is nil when
@@ -627,7 +632,7 @@ func (r *Reader) nextRow() (Named, error) {
 			return rec.line, h.wlCols[i] + 1, h.cells[h.wlCols[i]]
 		})
 	}
-	n := Named{Name: strings.Clone(f[0]), Spectrum: s, Line: rec.line, Column: 1, src: h.src}
+	n := Named{Name: strings.Clone(f[0]), Spectrum: s, Line: rec.line, Column: 1, MaxStep: maxStep(h.wl), src: h.src}
 	if n.Name == "" {
 		n.Name = "line " + strconv.Itoa(rec.line)
 	}
@@ -749,10 +754,19 @@ func (r *Reader) readTable(first record) error {
 				return lines[i], c + 1, fieldNames[c]
 			})
 		}
-		r.table = append(r.table, Named{Name: names[c], Spectrum: s, Line: startLine, Column: c + 1})
+		r.table = append(r.table, Named{Name: names[c], Spectrum: s, Line: startLine, Column: c + 1, MaxStep: maxStep(nm)})
 		cols[c] = nil
 	}
 	return nil
+}
+
+// maxStep returns the largest spacing between adjacent wavelengths of nm.
+func maxStep(nm []float64) float64 {
+	var m float64
+	for i := 1; i < len(nm); i++ {
+		m = max(m, nm[i]-nm[i-1])
+	}
+	return m
 }
 
 // spectrum builds a spectrum from wavelengths and values with r.Options

@@ -359,16 +359,18 @@ func TestIrregularWavelengths(t *testing.T) {
 	// Splines, ch. IV; from memory), so the 1 nm resampling made by
 	// colorimetry.NewSpectrumWith must give nm/1000 up to round-off. The
 	// tolerance 1e-12 allows for round-off in the spline solve.
+	// MaxStep keeps the widest gap of the file's own wavelengths.
 	for _, tc := range []struct {
-		name string
-		text string
-		step float64
-		lo   float64
-		n    int
+		name    string
+		text    string
+		step    float64
+		lo      float64
+		n       int
+		maxStep float64
 	}{
-		{name: "columns", text: "nm,line\n400,0.4\n410,0.41\n425,0.425\n440,0.44\n460.5,0.4605\n", step: 1, lo: 400, n: 61},
-		{name: "rows", text: "name,400.5,410,425,440,460\nline,0.4005,0.41,0.425,0.44,0.46\n", step: 1, lo: 401, n: 60},
-		{name: "rows 5 nm", text: "name,400,410,425,440,460\nline,0.4,0.41,0.425,0.44,0.46\n", step: 5, lo: 400, n: 13},
+		{name: "columns", text: "nm,line\n400,0.4\n410,0.41\n425,0.425\n440,0.44\n460.5,0.4605\n", step: 1, lo: 400, n: 61, maxStep: 20.5},
+		{name: "rows", text: "name,400.5,410,425,440,460\nline,0.4005,0.41,0.425,0.44,0.46\n", step: 1, lo: 401, n: 60, maxStep: 20},
+		{name: "rows 5 nm", text: "name,400,410,425,440,460\nline,0.4,0.41,0.425,0.44,0.46\n", step: 5, lo: 400, n: 13, maxStep: 20},
 	} {
 		r := specio.NewReader(strings.NewReader(tc.text), "irregular.csv")
 		r.Options.Step = tc.step
@@ -376,6 +378,9 @@ func TestIrregularWavelengths(t *testing.T) {
 		if err != nil || len(got) != 1 {
 			t.Errorf("%s: %d spectra, %v", tc.name, len(got), err)
 			continue
+		}
+		if got[0].MaxStep != tc.maxStep {
+			t.Errorf("%s: MaxStep %g, want %g", tc.name, got[0].MaxStep, tc.maxStep)
 		}
 		s := got[0].Spectrum
 		g := s.Grid()
@@ -388,6 +393,26 @@ func TestIrregularWavelengths(t *testing.T) {
 			if v := s.Value(i); !scalar.EqualWithinAbsOrRel(v, nm/1000, 1e-12, 1e-12) {
 				t.Errorf("%s: value at %g nm = %v, want %v", tc.name, nm, v, nm/1000)
 			}
+		}
+	}
+}
+
+// TestMaxStepEven checks MaxStep for evenly spaced data in the three
+// layouts: the grid's own step.
+func TestMaxStepEven(t *testing.T) {
+	t.Parallel()
+	for name, text := range map[string]string{
+		"columns": "nm,a\n400,0.4\n410,0.41\n420,0.42\n",
+		"rows":    "name,400,410,420\na,0.4,0.41,0.42\n",
+		"cgats":   "CGATS.17\nNUMBER_OF_FIELDS 4\nBEGIN_DATA_FORMAT\nSAMPLE_ID SPECTRAL_NM400 SPECTRAL_NM410 SPECTRAL_NM420\nEND_DATA_FORMAT\nNUMBER_OF_SETS 1\nBEGIN_DATA\na 0.4 0.41 0.42\nEND_DATA\n",
+	} {
+		got, err := specio.NewReader(strings.NewReader(text), name).ReadAll()
+		if err != nil || len(got) != 1 {
+			t.Errorf("%s: %d spectra, %v", name, len(got), err)
+			continue
+		}
+		if got[0].MaxStep != 10 || got[0].Spectrum.Grid().Step != 10 {
+			t.Errorf("%s: MaxStep %g, grid %v; want 10 and a 10 nm grid", name, got[0].MaxStep, got[0].Spectrum.Grid())
 		}
 	}
 }
