@@ -235,8 +235,9 @@ type describeOut struct {
 	block    []describeRow
 	n        int // rows written so far
 	width    []int
-	notes    []string // warnings, up to maxNotes
-	extra    int      // warnings beyond maxNotes
+	notes    []describeNote // distinct warnings, up to maxNotes
+	noteAt   map[string]int // index in notes by text
+	extra    int            // warnings beyond maxNotes
 	grids    []string
 	data     []string // data grids, up to maxDataGrids
 	moreData int      // data grids beyond maxDataGrids
@@ -249,8 +250,28 @@ const (
 	maxDataGrids  = 8
 )
 
+// describeNote is one warning text and the spectra that gave it: a
+// warning about a whole file (its range, its scale) or about the
+// illuminant is printed once, not once per spectrum.
+type describeNote struct {
+	text  string
+	names []string // the first few
+	count int
+}
+
+// maxNoteNames is how many names a shared warning lists before "and N more".
+const maxNoteNames = 3
+
+func (n describeNote) String() string {
+	who := strings.Join(n.names, ", ")
+	if more := n.count - len(n.names); more > 0 {
+		who += fmt.Sprintf(" and %d more", more)
+	}
+	return who + ": " + n.text
+}
+
 func newDescribeOut(w io.Writer, o describeOpts, keep bool) *describeOut {
-	return &describeOut{w: w, o: o, keep: keep}
+	return &describeOut{w: w, o: o, keep: keep, noteAt: map[string]int{}}
 }
 
 func (p *describeOut) add(r describeRow) error {
@@ -284,8 +305,17 @@ func (p *describeOut) add(r describeRow) error {
 		return err
 	}
 	for _, wn := range r.Warnings {
+		if i, ok := p.noteAt[wn]; ok {
+			n := &p.notes[i]
+			if len(n.names) < maxNoteNames {
+				n.names = append(n.names, r.Name)
+			}
+			n.count++
+			continue
+		}
 		if len(p.notes) < maxNotes {
-			p.notes = append(p.notes, fmt.Sprintf("%s: %s", r.Name, wn))
+			p.noteAt[wn] = len(p.notes)
+			p.notes = append(p.notes, describeNote{text: wn, names: []string{r.Name}, count: 1})
 		} else {
 			p.extra++
 		}
@@ -324,7 +354,11 @@ func (p *describeOut) finish() error {
 		return nil
 	}
 	if len(p.notes) > 0 {
-		fmt.Fprintf(p.w, "\nwarnings:\n  %s\n", strings.Join(p.notes, "\n  "))
+		lines := make([]string, len(p.notes))
+		for i, n := range p.notes {
+			lines[i] = n.String()
+		}
+		fmt.Fprintf(p.w, "\nwarnings:\n  %s\n", strings.Join(lines, "\n  "))
 		if p.extra > 0 {
 			fmt.Fprintf(p.w, "  … and %d more\n", p.extra)
 		}

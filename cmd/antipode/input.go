@@ -196,7 +196,7 @@ func asFraction(in spectrumIn, scale, as string) (colorimetry.Spectrum, float64,
 		scale = "fraction"
 		if peak > 1.5 {
 			scale = "percent"
-			warns = append(warns, fmt.Sprintf("values taken as percent (maximum %.4g > 1.5); say --scale to choose", peak))
+			warns = append(warns, "values taken as percent (the maximum exceeds 1.5); say --scale to choose")
 		}
 	}
 	factor := 1.0

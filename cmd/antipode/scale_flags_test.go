@@ -134,3 +134,29 @@ func TestDescribeUnevenData(t *testing.T) {
 		}
 	}
 }
+
+// TestDescribeSharedWarningOnce checks that a warning several spectra share
+// (here the percent scale of a whole file) is printed once, naming the
+// first three spectra and how many more.
+func TestDescribeSharedWarningOnce(t *testing.T) {
+	t.Parallel()
+	var b strings.Builder
+	b.WriteString("nm,a,b,c,d,e\n")
+	for nm := 380; nm <= 780; nm += 10 {
+		fmt.Fprintf(&b, "%d,40,50,60,70,80\n", nm)
+	}
+	f := writeTemp(t, "pct.csv", b.String())
+	code, out, errs := runCLI(t, "", "describe", f)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var lines []string
+	for _, l := range strings.Split(out, "\n") {
+		if strings.Contains(l, "taken as percent") {
+			lines = append(lines, l)
+		}
+	}
+	if len(lines) != 1 || !strings.Contains(lines[0], "a, b, c and 2 more: ") {
+		t.Errorf("percent warning lines %q", lines)
+	}
+}
