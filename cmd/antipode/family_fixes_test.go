@@ -303,13 +303,15 @@ func TestCorrectRecipeChecks(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("correct: exit %d: %s", code, errs)
 	}
-	for _, want := range []string{
-		`(the mass fractions sum to 0.3; taken as proportions, which "was" below shows)`,
-		"warning: the recipe's mass fractions sum to 0.3; taken as proportions",
-	} {
-		if !strings.Contains(out, want) {
-			t.Errorf("output lacks %q:\n%s", want, out)
-		}
+	// Said once, in the header (the JSON keeps the library's warning).
+	if want := `(the mass fractions sum to 0.3; taken as proportions, which "was" below shows)`; !strings.Contains(out, want) {
+		t.Errorf("output lacks %q:\n%s", want, out)
+	}
+	if strings.Count(out, "sum to 0.3") != 1 {
+		t.Errorf("the sum note is not said exactly once:\n%s", out)
+	}
+	if _, js, _ := run(short, "--json"); !strings.Contains(js, "the recipe's mass fractions sum to 0.3; taken as proportions") {
+		t.Errorf("JSON lacks the sum warning:\n%s", js)
 	}
 	// "was" holds the proportions 1/3 and 2/3, and the corrected recipe
 	// is the one of the same recipe given as fractions summing to 1 (an

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 	"os"
+	"slices"
 	"sort"
 	"strings"
 
@@ -203,6 +204,11 @@ func runCorrect(e *env, args []string) error {
 	fmt.Fprintf(e.stdout, "Correction of %s\n", amountText(am))
 	if len(sumWarn) > 0 {
 		fmt.Fprintf(e.stdout, "(%s, which \"was\" below shows)\n", sumWarn[0])
+		// The header says it; the library's warning below would repeat it
+		// (JSON keeps it).
+		rec.Warnings = slices.DeleteFunc(slices.Clone(rec.Warnings), func(w string) bool {
+			return strings.HasPrefix(w, "the recipe's mass fractions sum to")
+		})
 	}
 	fmt.Fprintf(e.stdout, "from trial %s, target %s\nunder %s, %s\n\n", rin.place(), tin.place(), opt.Illuminant.Name, opt.Observer.Name())
 	fmt.Fprintf(e.stdout, "trial against target:      ΔE00 %.2f\n", res.TrialDE00)
