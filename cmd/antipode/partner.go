@@ -3,6 +3,7 @@ package main
 import (
 	"flag"
 	"fmt"
+	"slices"
 
 	"github.com/antipode-color/antipode/colorimetry"
 	"github.com/antipode-color/antipode/complement"
@@ -96,6 +97,12 @@ func runPartner(e *env, args []string) error {
 	if err != nil {
 		return pairError(err, inA, inA)
 	}
+	// A itself, when the library holds it (same name, same values), is no
+	// partner of its own; the indices keep the library's order.
+	ranked = slices.DeleteFunc(ranked, func(p complement.Partner) bool {
+		in := lib[p.Index]
+		return in.name == inA.name && sameSpectrum(in.s, inA.s)
+	})
 	if top > 0 && len(ranked) > top {
 		ranked = ranked[:top]
 	}
@@ -145,4 +152,18 @@ type partnerRow struct {
 // package (which names the entry by number and name).
 func libraryError(err error, file string) error {
 	return fmt.Errorf("%s: %v", file, err)
+}
+
+// sameSpectrum reports whether a and b hold the same samples on the same
+// grid.
+func sameSpectrum(a, b colorimetry.Spectrum) bool {
+	if a.Grid() != b.Grid() || a.Len() != b.Len() {
+		return false
+	}
+	for i := range a.Len() {
+		if a.Value(i) != b.Value(i) {
+			return false
+		}
+	}
+	return true
 }

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
+	"os"
 	"strings"
 	"testing"
 )
@@ -158,5 +159,40 @@ func TestDescribeSharedWarningOnce(t *testing.T) {
 	}
 	if len(lines) != 1 || !strings.Contains(lines[0], "a, b, c and 2 more: ") {
 		t.Errorf("percent warning lines %q", lines)
+	}
+}
+
+// TestPartnerLeavesOutA checks that partner does not rank A against itself
+// when the library holds it, from a file or from standard input, and that
+// the other candidates keep their library indices.
+func TestPartnerLeavesOutA(t *testing.T) {
+	t.Parallel()
+	lamps, err := os.ReadFile("demo/lamps.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, args := range [][]string{
+		{"partner", "demo/lamps.csv:wash-amber", "demo/lamps.csv", "--top", "0", "--json"},
+		{"partner", "-:wash-amber", "demo/lamps.csv", "--top", "0", "--json"},
+	} {
+		code, out, errs := runCLI(t, string(lamps), args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, errs)
+		}
+		var rows []struct {
+			Name  string `json:"name"`
+			Index int    `json:"index"`
+		}
+		if err := json.Unmarshal([]byte(out), &rows); err != nil {
+			t.Fatal(err)
+		}
+		if len(rows) != 7 {
+			t.Errorf("%v: %d candidates, want the 7 other spectra", args, len(rows))
+		}
+		for _, r := range rows {
+			if r.Name == "wash-amber" || (r.Name == "wash-cyan" && r.Index != 5) {
+				t.Errorf("%v: row %+v", args, r)
+			}
+		}
 	}
 }
