@@ -307,7 +307,11 @@ func oneStdin(args ...string) error {
 		}
 	}
 	if len(from) > 1 {
-		return usagef("%s all read standard input, which can be read once: give at most one of them as - or -:NAME", strings.Join(from, ", "))
+		both := "both"
+		if len(from) > 2 {
+			both = "all"
+		}
+		return usagef("%s %s read standard input, which can be read once: give at most one of them as - or -:NAME (save the other to a file)", strings.Join(from, " and "), both)
 	}
 	return nil
 }
