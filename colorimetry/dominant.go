@@ -199,6 +199,11 @@ func (l *SpectrumLocus) Dominant(c, white XY) (Dominant, error) {
 		r.Wavelength, r.Complementary = nm, true
 	}
 	r.ColorimetricPurity = r.ExcitationPurity * r.Boundary.Y / c.Y
+	if !isFinite(r.ExcitationPurity) || !isFinite(r.ColorimetricPurity) {
+		// A y of a few ulp above zero (far outside the locus) overflows
+		// the colorimetric purity.
+		return Dominant{}, fmt.Errorf("dominant wavelength of (%g, %g): purities %g, %g: %w", c.X, c.Y, r.ExcitationPurity, r.ColorimetricPurity, ErrNotFinite)
+	}
 	return r, nil
 }
 

@@ -441,3 +441,15 @@ func TestSpectrumLocusContains(t *testing.T) {
 		}
 	}
 }
+
+// TestDominantTinyY is the case the property test TestNoNonFiniteWithoutError
+// found: a chromaticity far outside the locus with y a few ulp above zero
+// gave an infinite colorimetric purity without an error.
+func TestDominantTinyY(t *testing.T) {
+	t.Parallel()
+	l := spectrumLocus(t, cie.CIE1931())
+	d, err := l.Dominant(colorimetry.XY{X: 1.875, Y: 5.562684646268003e-309}, whiteD65)
+	if !errors.Is(err, colorimetry.ErrNotFinite) {
+		t.Errorf("got %+v, %v; want an error wrapping ErrNotFinite", d, err)
+	}
+}
