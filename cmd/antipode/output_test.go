@@ -17,12 +17,25 @@ var outputDemo = sync.OnceValues(func() (string, error) {
 	if err != nil {
 		return "", err
 	}
+	outputDemoDir = dir
 	var out, errb bytes.Buffer
 	if code := run([]string{"demo", "--out", dir}, strings.NewReader(""), &out, &errb); code != 0 {
 		return "", errors.New("demo: " + errb.String())
 	}
 	return dir, nil
 })
+
+// outputDemoDir is outputDemo's folder once made; TestMain removes it
+// after every test (and every -count repetition) has run.
+var outputDemoDir string
+
+func TestMain(m *testing.M) {
+	code := m.Run()
+	if outputDemoDir != "" {
+		os.RemoveAll(outputDemoDir)
+	}
+	os.Exit(code)
+}
 
 // outputCases are the commands that write a file, each with the input it
 // reads ({in}) and the output it writes ({out}). The demo folder supplies
@@ -96,8 +109,6 @@ func TestOutputSafety(t *testing.T) {
 		t.Fatal(err)
 	}
 	t.Parallel()
-	// The last user of the demo folder: serial tests run first.
-	t.Cleanup(func() { os.RemoveAll(demo) })
 	for _, tc := range outputCases {
 		ext := ".csv"
 		switch {
