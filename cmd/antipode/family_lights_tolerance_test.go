@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"fmt"
 	"path/filepath"
 	"strings"
@@ -20,17 +19,7 @@ func TestSolveTolerance(t *testing.T) {
 	model, _ := lightsFitDemo(t)
 	solve := func(args ...string) []map[string]any {
 		t.Helper()
-		code, out, errs := runCLI(t, "", append([]string{"solve", model, "--json"}, args...)...)
-		if code != 0 {
-			t.Fatalf("%v: exit %d: %s", args, code, errs)
-		}
-		var sol struct {
-			Recipes []map[string]any `json:"recipes"`
-		}
-		if err := json.Unmarshal([]byte(out), &sol); err != nil {
-			t.Fatal(err)
-		}
-		return sol.Recipes
+		return solveRecipes(t, append([]string{"solve", model, "--json"}, args...)...)
 	}
 	exact := solve("--cct", "4000", "--maximize", "efficacy")[0]
 	for _, r := range solve("--cct", "4000", "--maximize", "efficacy") {

@@ -14,16 +14,11 @@ import (
 // percent: read as percent it is Y = 40, L* = 116·0.4^⅓ − 16 = 69.4695
 // (CIE 015:2018 §8.2.1), and its additive complement 1 − r is the flat 60 %
 // grey, Y = 60; read as fraction, a reflectance of 40 is not realisable and
-// is flagged as above 1. The flag is refused where it does not apply. Tolerance 1e-9: a flat spectrum's
-// Y is exact to round-off.
+// is flagged as above 1. The flag is refused where it does not apply.
+// Tolerance 1e-9: a flat spectrum's Y is exact to round-off.
 func TestScaleFlagOnCheckAndComplement(t *testing.T) {
 	t.Parallel()
-	var b strings.Builder
-	b.WriteString("wavelength_nm,grey40\n")
-	for nm := 380; nm <= 780; nm += 10 {
-		fmt.Fprintf(&b, "%d,40\n", nm)
-	}
-	f := writeTemp(t, "grey40.csv", b.String())
+	f := flatCSV(t, "grey40.csv", map[string]float64{"grey40": 40}, "grey40")
 
 	code, out, errs := runCLI(t, "", "limits", "--check", f, "--scale", "percent", "--json")
 	if code != 0 {
@@ -141,12 +136,7 @@ func TestDescribeUnevenData(t *testing.T) {
 // first three spectra and how many more.
 func TestDescribeSharedWarningOnce(t *testing.T) {
 	t.Parallel()
-	var b strings.Builder
-	b.WriteString("nm,a,b,c,d,e\n")
-	for nm := 380; nm <= 780; nm += 10 {
-		fmt.Fprintf(&b, "%d,40,50,60,70,80\n", nm)
-	}
-	f := writeTemp(t, "pct.csv", b.String())
+	f := flatCSV(t, "pct.csv", map[string]float64{"a": 40, "b": 50, "c": 60, "d": 70, "e": 80}, "a", "b", "c", "d", "e")
 	code, out, errs := runCLI(t, "", "describe", f)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
